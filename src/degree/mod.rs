@@ -1,0 +1,1 @@
+//! Degree distributions and their generating functions.

@@ -1,0 +1,2 @@
+//! Immunization rules (orders of whom to vaccinate), the class-level LP
+//! allocation, and the immunization evaluator.

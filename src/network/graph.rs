@@ -1,0 +1,413 @@
+//! The [`Network`]: compressed sparse rows with `u32` node indices and
+//! `u64` offsets, built once and never mutated.
+//!
+//! Undirected networks store each edge in both endpoints' rows with one
+//! shared edge index, so an edge's transmission coin is the same from both
+//! sides. Directed networks store out-rows and in-rows. Edge `e` is the
+//! `e`-th entry of [`Network::edges`], sorted by `(source, target)`
+//! (undirected: `source < target`). Building drops self-loops and merges
+//! duplicates; the counts go to a [`BuildReport`].
+//!
+//! Loading files is `network::load`; generating is `network::generate`.
+
+use serde::Serialize;
+
+/// How the weights of merged duplicate edges combine.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum WeightMerge {
+    /// The largest weight wins (default: an edge listed in both directions
+    /// keeps its weight, and a probability never exceeds 1).
+    #[default]
+    Max,
+    /// Weights add (durations, contact counts).
+    Sum,
+    /// The first occurrence in the file wins.
+    First,
+    /// Independent transmission chances combine: `1 − Π(1 − w)`.
+    NoisyOr,
+}
+
+/// What building a network dropped or merged.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct BuildReport {
+    /// Self-loops dropped.
+    pub self_loops_dropped: u64,
+    /// Duplicate edges merged into an earlier one.
+    pub duplicates_merged: u64,
+}
+
+/// Why a network could not be built.
+#[derive(Debug, thiserror::Error, PartialEq)]
+pub enum BuildError {
+    /// An endpoint is not below the node count.
+    #[error("edge {edge}: node index {node} is not below the node count {nodes}")]
+    NodeOutOfRange {
+        /// Position of the edge in the input.
+        edge: usize,
+        /// The bad index.
+        node: u32,
+        /// The node count.
+        nodes: u32,
+    },
+    /// More edges than `u32` edge indices can address.
+    #[error("{0} edges exceed the limit of 4294967295")]
+    TooManyEdges(usize),
+    /// Weights given for a different number of edges.
+    #[error("{weights} weights given for {edges} edges")]
+    WeightCount {
+        /// Number of weights.
+        weights: usize,
+        /// Number of edges.
+        edges: usize,
+    },
+}
+
+/// A contact network in compressed sparse rows.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Network {
+    directed: bool,
+    n: u32,
+    edges: Vec<[u32; 2]>,
+    weights: Option<Vec<f32>>,
+    out_offsets: Vec<u64>,
+    out_targets: Vec<u32>,
+    out_edge_ids: Vec<u32>,
+    // Directed only; empty for undirected networks (rows are shared).
+    in_offsets: Vec<u64>,
+    in_sources: Vec<u32>,
+    in_edge_ids: Vec<u32>,
+}
+
+impl Network {
+    /// Builds a network on nodes `0..n` from an edge list, dropping
+    /// self-loops and merging duplicate edges (undirected: `(u, v)` and
+    /// `(v, u)` are the same edge) with `merge` combining their weights.
+    ///
+    /// ```
+    /// use spreadplan::network::{Network, WeightMerge};
+    /// let (net, rep) = Network::from_edges(3, false, vec![(0, 1), (1, 0), (2, 2), (1, 2)], None,
+    ///     WeightMerge::Max).unwrap();
+    /// assert_eq!((net.node_count(), net.edge_count()), (3, 2));
+    /// assert_eq!((rep.self_loops_dropped, rep.duplicates_merged), (1, 1));
+    /// assert_eq!(net.neighbors(1), &[0, 2]);
+    /// ```
+    pub fn from_edges(
+        n: u32,
+        directed: bool,
+        edges: Vec<(u32, u32)>,
+        weights: Option<Vec<f32>>,
+        merge: WeightMerge,
+    ) -> Result<(Network, BuildReport), BuildError> {
+        if let Some(w) = &weights {
+            if w.len() != edges.len() {
+                return Err(BuildError::WeightCount { weights: w.len(), edges: edges.len() });
+            }
+        }
+        let mut report = BuildReport::default();
+        // Pack each edge into a sortable key: high 32 bits source, low target.
+        let mut keyed: Vec<(u64, u32)> = Vec::with_capacity(edges.len());
+        for (i, &(u, v)) in edges.iter().enumerate() {
+            for x in [u, v] {
+                if x >= n {
+                    return Err(BuildError::NodeOutOfRange { edge: i, node: x, nodes: n });
+                }
+            }
+            if u == v {
+                report.self_loops_dropped += 1;
+                continue;
+            }
+            let (a, b) = if directed || u < v { (u, v) } else { (v, u) };
+            keyed.push((((a as u64) << 32) | b as u64, i as u32));
+        }
+        drop(edges);
+        // Stable so that `First` keeps the first occurrence in input order.
+        keyed.sort_by_key(|&(k, _)| k);
+        let mut out_edges: Vec<[u32; 2]> = Vec::with_capacity(keyed.len());
+        let mut out_w: Vec<f32> = Vec::new();
+        let mut last = u64::MAX;
+        for &(k, i) in &keyed {
+            if k == last {
+                report.duplicates_merged += 1;
+                if let Some(w) = &weights {
+                    let cur = out_w.last_mut().expect("a merged edge follows its first copy");
+                    let x = w[i as usize];
+                    *cur = match merge {
+                        WeightMerge::Max => cur.max(x),
+                        WeightMerge::Sum => *cur + x,
+                        WeightMerge::First => *cur,
+                        WeightMerge::NoisyOr => 1.0 - (1.0 - *cur) * (1.0 - x),
+                    };
+                }
+                continue;
+            }
+            last = k;
+            out_edges.push([(k >> 32) as u32, k as u32]);
+            if let Some(w) = &weights {
+                out_w.push(w[i as usize]);
+            }
+        }
+        drop(keyed);
+        if out_edges.len() > u32::MAX as usize {
+            return Err(BuildError::TooManyEdges(out_edges.len()));
+        }
+        let weights = weights.map(|_| out_w);
+        Ok((Network::from_sorted_unique(n, directed, out_edges, weights), report))
+    }
+
+    /// Builds the rows from edges that are already sorted by `(source,
+    /// target)`, unique, free of self-loops and (undirected) have `source <
+    /// target`. Generators that produce such lists call this directly.
+    pub fn from_sorted_unique(
+        n: u32,
+        directed: bool,
+        edges: Vec<[u32; 2]>,
+        weights: Option<Vec<f32>>,
+    ) -> Network {
+        debug_assert!(edges.windows(2).all(|w| w[0] < w[1]));
+        debug_assert!(edges.iter().all(|e| directed || e[0] < e[1]));
+        let nn = n as usize;
+        let mut net = Network {
+            directed,
+            n,
+            edges,
+            weights,
+            out_offsets: Vec::new(),
+            out_targets: Vec::new(),
+            out_edge_ids: Vec::new(),
+            in_offsets: Vec::new(),
+            in_sources: Vec::new(),
+            in_edge_ids: Vec::new(),
+        };
+        if directed {
+            let (o, t, id) = rows(nn, &net.edges, |e| [(e[0], e[1])].into_iter());
+            let (io, is, iid) = rows(nn, &net.edges, |e| [(e[1], e[0])].into_iter());
+            (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
+            (net.in_offsets, net.in_sources, net.in_edge_ids) = (io, is, iid);
+        } else {
+            let (o, t, id) = rows(nn, &net.edges, |e| [(e[0], e[1]), (e[1], e[0])].into_iter());
+            (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
+        }
+        net
+    }
+
+    /// Whether edges have a direction.
+    pub fn is_directed(&self) -> bool {
+        self.directed
+    }
+
+    /// Number of nodes `N`.
+    pub fn node_count(&self) -> usize {
+        self.n as usize
+    }
+
+    /// Number of (merged, loop-free) edges `M`.
+    pub fn edge_count(&self) -> usize {
+        self.edges.len()
+    }
+
+    /// Edge endpoints by edge index, sorted; undirected edges have
+    /// `source < target`.
+    pub fn edges(&self) -> &[[u32; 2]] {
+        &self.edges
+    }
+
+    /// Per-edge weights aligned with [`Network::edges`], if loaded.
+    pub fn weights(&self) -> Option<&[f32]> {
+        self.weights.as_deref()
+    }
+
+    /// Degree (undirected) or out-degree (directed) of `v`.
+    #[inline]
+    pub fn degree(&self, v: u32) -> usize {
+        let v = v as usize;
+        (self.out_offsets[v + 1] - self.out_offsets[v]) as usize
+    }
+
+    /// In-degree of `v` (equals [`Network::degree`] when undirected).
+    #[inline]
+    pub fn in_degree(&self, v: u32) -> usize {
+        if !self.directed {
+            return self.degree(v);
+        }
+        let v = v as usize;
+        (self.in_offsets[v + 1] - self.in_offsets[v]) as usize
+    }
+
+    /// Neighbors (undirected) or out-neighbors (directed) of `v`, ascending.
+    #[inline]
+    pub fn neighbors(&self, v: u32) -> &[u32] {
+        let (a, b) = self.out_range(v);
+        &self.out_targets[a..b]
+    }
+
+    /// Edge indices aligned with [`Network::neighbors`].
+    #[inline]
+    pub fn neighbor_edges(&self, v: u32) -> &[u32] {
+        let (a, b) = self.out_range(v);
+        &self.out_edge_ids[a..b]
+    }
+
+    /// In-neighbors of `v`, ascending (all neighbors when undirected).
+    #[inline]
+    pub fn in_neighbors(&self, v: u32) -> &[u32] {
+        if !self.directed {
+            return self.neighbors(v);
+        }
+        let (a, b) = self.in_range(v);
+        &self.in_sources[a..b]
+    }
+
+    /// Edge indices aligned with [`Network::in_neighbors`].
+    #[inline]
+    pub fn in_neighbor_edges(&self, v: u32) -> &[u32] {
+        if !self.directed {
+            return self.neighbor_edges(v);
+        }
+        let (a, b) = self.in_range(v);
+        &self.in_edge_ids[a..b]
+    }
+
+    /// The raw out-rows `(offsets, targets, edge ids)` for hot loops:
+    /// the row of `v` is `offsets[v]..offsets[v + 1]`.
+    pub fn out_rows(&self) -> (&[u64], &[u32], &[u32]) {
+        (&self.out_offsets, &self.out_targets, &self.out_edge_ids)
+    }
+
+    /// The raw in-rows (the out-rows when undirected).
+    pub fn in_rows(&self) -> (&[u64], &[u32], &[u32]) {
+        if self.directed {
+            (&self.in_offsets, &self.in_sources, &self.in_edge_ids)
+        } else {
+            self.out_rows()
+        }
+    }
+
+    /// All degrees (out-degrees when directed) as a vector.
+    pub fn degrees(&self) -> Vec<u32> {
+        (0..self.n).map(|v| self.degree(v) as u32).collect()
+    }
+
+    /// The same network with node `v` renamed `perm[v]` (a permutation of
+    /// `0..N`), e.g. for memory locality. Edge indices are renumbered in the
+    /// new sorted order; weights follow their edges.
+    pub fn relabeled(&self, perm: &[u32]) -> Network {
+        assert_eq!(perm.len(), self.node_count(), "permutation length must equal node count");
+        let mut keyed: Vec<(u64, u32)> = self
+            .edges
+            .iter()
+            .enumerate()
+            .map(|(i, e)| {
+                let (mut a, mut b) = (perm[e[0] as usize], perm[e[1] as usize]);
+                if !self.directed && a > b {
+                    std::mem::swap(&mut a, &mut b);
+                }
+                (((a as u64) << 32) | b as u64, i as u32)
+            })
+            .collect();
+        keyed.sort_unstable();
+        let edges = keyed.iter().map(|&(k, _)| [(k >> 32) as u32, k as u32]).collect();
+        let weights =
+            self.weights.as_ref().map(|w| keyed.iter().map(|&(_, i)| w[i as usize]).collect());
+        Network::from_sorted_unique(self.n, self.directed, edges, weights)
+    }
+
+    #[inline]
+    fn out_range(&self, v: u32) -> (usize, usize) {
+        let v = v as usize;
+        (self.out_offsets[v] as usize, self.out_offsets[v + 1] as usize)
+    }
+
+    #[inline]
+    fn in_range(&self, v: u32) -> (usize, usize) {
+        let v = v as usize;
+        (self.in_offsets[v] as usize, self.in_offsets[v + 1] as usize)
+    }
+}
+
+/// Counting-sort rows: `entries(e)` yields `(row, column)` pairs of edge `e`.
+fn rows<I: Iterator<Item = (u32, u32)>>(
+    n: usize,
+    edges: &[[u32; 2]],
+    entries: impl Fn(&[u32; 2]) -> I,
+) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    let mut offsets = vec![0u64; n + 1];
+    for e in edges {
+        for (r, _) in entries(e) {
+            offsets[r as usize + 1] += 1;
+        }
+    }
+    for i in 0..n {
+        offsets[i + 1] += offsets[i];
+    }
+    let total = offsets[n] as usize;
+    let mut cols = vec![0u32; total];
+    let mut ids = vec![0u32; total];
+    let mut next: Vec<u64> = offsets[..n].to_vec();
+    for (i, e) in edges.iter().enumerate() {
+        for (r, c) in entries(e) {
+            let slot = next[r as usize] as usize;
+            cols[slot] = c;
+            ids[slot] = i as u32;
+            next[r as usize] += 1;
+        }
+    }
+    (offsets, cols, ids)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn path(n: u32) -> Network {
+        let e = (0..n - 1).map(|i| (i, i + 1)).collect();
+        Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap().0
+    }
+
+    #[test]
+    fn path_degrees() {
+        let net = path(4);
+        assert_eq!(net.degrees(), vec![1, 2, 2, 1]);
+        assert_eq!(net.neighbors(2), &[1, 3]);
+        // The shared edge index: edge (1,2) seen from both sides.
+        let e12 = net.neighbor_edges(1)[1];
+        assert_eq!(net.neighbor_edges(2)[0], e12);
+        assert_eq!(net.edges()[e12 as usize], [1, 2]);
+    }
+
+    #[test]
+    fn directed_rows() {
+        let (net, _) =
+            Network::from_edges(3, true, vec![(0, 1), (1, 0), (2, 1)], None, WeightMerge::Max)
+                .unwrap();
+        assert_eq!(net.edge_count(), 3);
+        assert_eq!(net.neighbors(1), &[0]);
+        assert_eq!(net.in_neighbors(1), &[0, 2]);
+        assert_eq!(net.in_degree(0), 1);
+    }
+
+    #[test]
+    fn weights_merge() {
+        let e = vec![(0, 1), (1, 0), (1, 0)];
+        let w = Some(vec![0.5f32, 0.5, 0.2]);
+        let get = |m| Network::from_edges(2, false, e.clone(), w.clone(), m).unwrap().0;
+        assert_eq!(get(WeightMerge::Max).weights().unwrap(), &[0.5]);
+        assert_eq!(get(WeightMerge::Sum).weights().unwrap(), &[1.2]);
+        assert_eq!(get(WeightMerge::First).weights().unwrap(), &[0.5]);
+        assert!((get(WeightMerge::NoisyOr).weights().unwrap()[0] - 0.8).abs() < 1e-6);
+    }
+
+    #[test]
+    fn out_of_range_is_an_error() {
+        let r = Network::from_edges(2, false, vec![(0, 2)], None, WeightMerge::Max);
+        assert!(matches!(r, Err(BuildError::NodeOutOfRange { node: 2, .. })));
+    }
+
+    #[test]
+    fn relabel_reverses() {
+        let net = path(3);
+        let r = net.relabeled(&[2, 1, 0]);
+        assert_eq!(r.edges(), &[[0, 1], [1, 2]]);
+        assert_eq!(r.degrees(), vec![1, 2, 1]);
+    }
+}

@@ -1,0 +1,1 @@
+//! TOML scenario files that reproduce a whole study.

@@ -1,0 +1,2 @@
+//! Cascade models, reverse-reachable sets, seeding rules and the seeding
+//! evaluator.
