@@ -82,3 +82,25 @@ pub(crate) fn load_network(
     spreadplan::network::load::load_edge_list(path, opts)
         .with_context(|| format!("cannot load network {}", path.display()))
 }
+
+/// Prints a study in the chosen format and writes `--out` files.
+pub(crate) fn emit(study: &spreadplan::outcome::Study, out: &OutputOpts) -> anyhow::Result<()> {
+    use spreadplan::report;
+    use std::io::Write;
+    let text = match out.format {
+        Format::Table => report::table::render(study),
+        Format::Json => report::json::to_string(study),
+        Format::Csv => report::csv::ranking(study),
+    };
+    let mut stdout = std::io::stdout().lock();
+    stdout.write_all(text.as_bytes())?;
+    stdout.flush()?;
+    if let Some(dir) = &out.out {
+        let written = report::write_outputs(dir, study)
+            .with_context(|| format!("cannot write outputs to {}", dir.display()))?;
+        if !out.quiet {
+            eprintln!("wrote {} files to {}", written.len(), dir.display());
+        }
+    }
+    Ok(())
+}

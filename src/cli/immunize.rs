@@ -1,8 +1,68 @@
-//! `spreadplan immunize`.
+//! `spreadplan immunize`: rank immunization rules under a dose budget, on a
+//! contact network (Monte Carlo) or on a degree distribution (analytic).
+
+use std::path::PathBuf;
+
+use super::{OutputOpts, RunOpts};
 
 /// Arguments of `spreadplan immunize`.
 #[derive(Debug, clap::Args)]
-pub(crate) struct Args {}
+#[command(group(clap::ArgGroup::new("source").required(true)
+    .args(["network", "degrees", "degree_model"])))]
+pub(crate) struct Args {
+    /// Contact network edge list (CSV/TSV/whitespace, optional header, .gz)
+    #[arg(long)]
+    pub(crate) network: Option<PathBuf>,
+    /// Degree distribution table: degree,count or degree,probability (optional group column)
+    #[arg(long)]
+    pub(crate) degrees: Option<PathBuf>,
+    /// Degree model, e.g. poisson:mean=6, powerlaw:exponent=2.5,min=2,max=300
+    #[arg(long)]
+    pub(crate) degree_model: Option<String>,
+    /// Population size for a degree distribution (doses are counted in people)
+    #[arg(long)]
+    pub(crate) population: Option<u64>,
+    /// Also sample this many configuration-model people from the distribution and rank by Monte Carlo
+    #[arg(long)]
+    pub(crate) simulate: Option<u64>,
+    /// Node table: id plus optional group, cost, uptake, immune
+    #[arg(long)]
+    pub(crate) nodes: Option<PathBuf>,
+    /// Treat the edge list as directed
+    #[arg(long)]
+    pub(crate) directed: bool,
+    /// Column holding a per-contact transmissibility in [0,1] (multiplies --transmissibility)
+    #[arg(long)]
+    pub(crate) weight_column: Option<String>,
+    /// Doses: a count (500), a share of the population (5%), or cost units when costs are given
+    #[arg(long)]
+    pub(crate) budget: String,
+    /// Probability that a contact transmits, in [0,1]
+    #[arg(long)]
+    pub(crate) transmissibility: f64,
+    /// Probability that a dose makes its recipient immune (all-or-nothing), in (0,1]
+    #[arg(long, default_value_t = 1.0)]
+    pub(crate) efficacy: f64,
+    /// Comma-separated rules (default: all that fit the input)
+    #[arg(long)]
+    pub(crate) rules: Option<String>,
+    /// Metric that ranks the rules (lower is better)
+    #[arg(long, default_value = "mean_outbreak_fraction")]
+    pub(crate) objective: String,
+    /// Ball radius of Collective Influence
+    #[arg(long, default_value_t = 2)]
+    pub(crate) ci_radius: u32,
+    /// Per-group floors and caps for the lp rule, e.g. "care-homes>=0.9,school<=0.5"
+    #[arg(long)]
+    pub(crate) group_limits: Option<String>,
+    /// For the lp rule: also find the fewest doses that reach this r_eff
+    #[arg(long)]
+    pub(crate) target_r_eff: Option<f64>,
+    #[command(flatten)]
+    pub(crate) run: RunOpts,
+    #[command(flatten)]
+    pub(crate) output: OutputOpts,
+}
 
 pub(crate) fn run(_args: Args) -> anyhow::Result<()> {
     anyhow::bail!("`immunize` is not available yet")
