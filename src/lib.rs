@@ -33,6 +33,7 @@ pub mod lp;
 pub mod network;
 pub mod outcome;
 pub mod percolation;
+pub mod progress;
 pub mod report;
 pub mod rng;
 pub mod scenario;

@@ -64,6 +64,9 @@ pub(crate) struct Args {
     pub(crate) output: OutputOpts,
 }
 
-pub(crate) fn run(_args: Args) -> anyhow::Result<()> {
-    anyhow::bail!("`immunize` is not available yet")
+pub(crate) fn run(args: Args) -> anyhow::Result<()> {
+    if args.network.is_none() {
+        return super::immunize_degrees::run(args);
+    }
+    anyhow::bail!("`immunize --network` is not available yet")
 }

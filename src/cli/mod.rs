@@ -7,6 +7,7 @@ mod common;
 mod demo;
 mod generate;
 mod immunize;
+mod immunize_degrees;
 mod inspect;
 mod run;
 mod seed;
