@@ -661,8 +661,8 @@ fn fast_edges(
         }
         i
     };
-    // One line from `i`: both ids with their token ends, and the next line start.
-    let line = |i: usize| -> Option<((u32, usize), (u32, usize), usize)> {
+    // One line from `i`: both ids, where the second starts, the next line.
+    let line = |i: usize| -> Option<(u32, u32, usize, usize)> {
         let i = skip_blanks(i);
         let (a, ea) = fast_id(block, i)?;
         if !is_sep(*block.get(ea)?) {
@@ -677,7 +677,7 @@ fn fast_edges(
         if block.get(j) != Some(&b'\n') {
             return None;
         }
-        Some(((a, ea - i), (b, sb), j + 1))
+        Some((a, b, sb, j + 1))
     };
     // Parse a batch of lines first, then look the ids up: the lookups are
     // independent, so their cache misses overlap.
@@ -689,7 +689,7 @@ fn fast_edges(
         let mut k = 0;
         let mut j = i;
         while k < BATCH {
-            let Some(((a, _), (b, sb), next)) = line(j) else { break };
+            let Some((a, b, sb, next)) = line(j) else { break };
             parsed[k] = (a, b, j, sb, next);
             k += 1;
             j = next;
