@@ -7,13 +7,23 @@
 //! (ChaCha8), so the same seed gives the same network on every platform.
 //! Degree distributions and their specs belong to `degree`.
 
+mod barabasi_albert;
+mod chung_lu;
+mod configuration;
 mod erdos_renyi;
 mod lattice;
 mod regular;
+mod sbm;
+mod watts_strogatz;
 
+pub use barabasi_albert::barabasi_albert;
+pub use chung_lu::chung_lu;
+pub use configuration::{configuration_model, Erased};
 pub use erdos_renyi::{gnm, gnp};
 pub use lattice::{square_lattice, triangular_lattice};
 pub use regular::random_regular;
+pub use sbm::{stochastic_block_model, Blocks};
+pub use watts_strogatz::watts_strogatz;
 
 use rand::Rng;
 use rand_chacha::ChaCha8Rng;
