@@ -14,6 +14,7 @@ mod erdos_renyi;
 mod lattice;
 mod regular;
 mod sbm;
+mod town;
 mod watts_strogatz;
 
 pub use barabasi_albert::barabasi_albert;
@@ -23,6 +24,7 @@ pub use erdos_renyi::{gnm, gnp};
 pub use lattice::{square_lattice, triangular_lattice};
 pub use regular::random_regular;
 pub use sbm::{stochastic_block_model, Blocks};
+pub use town::{town, Town, TownConfig, TOWN_GROUPS};
 pub use watts_strogatz::watts_strogatz;
 
 use rand::Rng;
