@@ -7,12 +7,17 @@
 //! whatever the file layout.
 
 mod budget_curve;
+mod nonbacktracking;
 mod realization;
 mod union_find;
 
 pub use budget_curve::{
     budget_curve, budget_curve_into, budget_curve_sums, budget_curves, check_probability,
     BudgetCurve, BudgetCurveConfig, CurveMetric, CurveSums, RuleOrder, Scratch,
+};
+pub use nonbacktracking::{
+    critical_transmissibility, nonbacktracking_radius, nonbacktracking_radius_with,
+    CriticalTransmissibility, SpectralRadius, NB_MAX_ITERATIONS,
 };
 pub use realization::{
     bond_realization, dose_takes, large_outbreak_min, EdgeThresholds, PercolationError,
