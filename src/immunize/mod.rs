@@ -14,6 +14,7 @@ mod coreness;
 mod degree;
 mod random;
 mod rule;
+mod spectral;
 
 pub use acquaintance::acquaintance_order;
 pub use collective_influence::collective_influence_order;
@@ -22,3 +23,4 @@ pub use coreness::{core_numbers_present, coreness_order};
 pub use degree::{degree_adaptive_order, degree_order};
 pub use random::random_order;
 pub use rule::{removal_order, Present, Rule, RuleParams, NETWORK_RULES};
+pub use spectral::{nb_radius, Radius};
