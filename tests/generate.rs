@@ -422,6 +422,32 @@ fn cli_generate_writes_deterministic_files() {
     ]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     assert!(String::from_utf8_lossy(&out.stderr).contains("150 nodes"));
+
+    // Degree-model spec path (spec syntax of `degree::DegreeDistribution`):
+    // a pairing of 100 nodes of degree 4 has 200 edges before erasure.
+    let c = dir.join("spec.csv");
+    let out = spreadplan(&[
+        "generate",
+        "configuration",
+        "--degree-model",
+        "regular:k=4",
+        "--n",
+        "100",
+        "-o",
+        c.to_str().unwrap(),
+    ]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let err = String::from_utf8_lossy(&out.stderr).to_string();
+    let num = |before: &str| -> u64 {
+        let head = &err[..err.find(before).unwrap()];
+        head.rsplit(|ch: char| !ch.is_ascii_digit())
+            .find(|w| !w.is_empty())
+            .unwrap()
+            .parse()
+            .unwrap()
+    };
+    let (edges, loops, multi) = (num(" edges"), num(" self-loops"), num(" multi-edges"));
+    assert_eq!(edges + loops + multi, 200, "{err}");
 }
 
 #[test]

@@ -6,6 +6,7 @@ use std::path::{Path, PathBuf};
 
 use anyhow::{bail, ensure, Context};
 use clap::{Args as ClapArgs, Subcommand};
+use spreadplan::degree::DegreeDistribution;
 use spreadplan::network::generate::{self as g, TownConfig};
 use spreadplan::network::load::write_edge_list;
 use spreadplan::network::{BuildReport, Network, NodeTable};
@@ -69,7 +70,8 @@ enum Model {
         /// Degree file: one degree per line (node order), or `degree,count` rows
         #[arg(long, value_name = "FILE", required_unless_present = "degree_model")]
         degrees_file: Option<PathBuf>,
-        /// Degree model spec, e.g. `poisson:mean=6`, sampled for --n nodes
+        /// Degree model spec (`poisson:mean=6`, `powerlaw:exponent=2.5,min=2,max=300`, …)
+        /// or a `degree,probability` file, sampled i.i.d. for --n nodes
         #[arg(long, value_name = "SPEC", conflicts_with = "degrees_file", requires = "n")]
         degree_model: Option<String>,
         /// Number of nodes (with --degree-model)
@@ -81,7 +83,8 @@ enum Model {
         /// Expected degrees: one number per line (node order)
         #[arg(long, value_name = "FILE", required_unless_present = "degree_model")]
         weights_file: Option<PathBuf>,
-        /// Degree model spec whose samples are the expected degrees of --n nodes
+        /// Degree model spec or `degree,probability` file whose samples are the
+        /// expected degrees of --n nodes
         #[arg(long, value_name = "SPEC", conflicts_with = "weights_file", requires = "n")]
         degree_model: Option<String>,
         /// Number of nodes (with --degree-model)
@@ -289,9 +292,18 @@ fn build(model: Model, seed: u64) -> anyhow::Result<Generated> {
     })
 }
 
-/// Degrees for `n` nodes drawn from a degree-model spec.
-fn sample_degrees(spec: &str, n: u32, _seed: u64) -> anyhow::Result<Vec<u32>> {
-    bail!("--degree-model {spec:?} (n = {n}) is not available yet; use --degrees-file")
+/// Degrees for `n` nodes drawn i.i.d. from a degree-model spec, or from a
+/// `degree,count|probability` table when SPEC names an existing file.
+/// Realization 1 of the generate stream, so the draws are independent of the
+/// pairing (realization 0).
+fn sample_degrees(spec: &str, n: u32, seed: u64) -> anyhow::Result<Vec<u32>> {
+    let path = Path::new(spec);
+    let dist = if path.is_file() {
+        DegreeDistribution::from_csv_path(path)?
+    } else {
+        DegreeDistribution::from_spec(spec)?
+    };
+    Ok(dist.sample_degrees_in(n as usize, seed, 1))
 }
 
 /// Reads non-empty, non-`#` lines of `path`, skipping a non-numeric first line (a header).
