@@ -9,6 +9,7 @@
 mod budget_curve;
 mod nonbacktracking;
 mod realization;
+mod sweep;
 mod union_find;
 
 pub use budget_curve::{
@@ -23,4 +24,5 @@ pub use realization::{
     bond_realization, dose_takes, large_outbreak_min, EdgeThresholds, PercolationError,
     Transmissibility,
 };
+pub use sweep::{binomial_weights, newman_ziff, Sweep, SweepConfig, SweepPoint};
 pub use union_find::UnionFind;
