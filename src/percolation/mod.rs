@@ -7,6 +7,7 @@
 //! whatever the file layout.
 
 mod budget_curve;
+mod directed;
 mod nonbacktracking;
 mod realization;
 mod sweep;
@@ -15,6 +16,10 @@ mod union_find;
 pub use budget_curve::{
     budget_curve, budget_curve_into, budget_curve_sums, budget_curves, check_probability,
     BudgetCurve, BudgetCurveConfig, CurveMetric, CurveSums, RuleOrder, Scratch,
+};
+pub use directed::{
+    directed_configuration_threshold, directed_curve, directed_realization, DirectedComponents,
+    DirectedConfig, DirectedPoint,
 };
 pub use nonbacktracking::{
     critical_transmissibility, nonbacktracking_radius, nonbacktracking_radius_with,
