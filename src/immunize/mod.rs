@@ -8,10 +8,12 @@
 //! [`rank_network`] builds the ranked [`Study`](crate::outcome::Study).
 
 mod acquaintance;
+pub mod analytic;
 mod collective_influence;
 mod corehd;
 mod coreness;
 mod degree;
+pub mod lp_allocation;
 mod random;
 mod rule;
 mod spectral;
