@@ -12,7 +12,9 @@ mod collective_influence;
 mod corehd;
 mod coreness;
 mod degree;
+mod evaluate;
 mod random;
+mod rank;
 mod rule;
 mod spectral;
 
@@ -24,3 +26,5 @@ pub use degree::{degree_adaptive_order, degree_order};
 pub use random::random_order;
 pub use rule::{removal_order, Present, Rule, RuleParams, NETWORK_RULES};
 pub use spectral::{nb_radius, Radius};
+pub use evaluate::{curve_grid, dose_sequence, doses_to_contain, occupation, DoseBudget, RealizationOutcome};
+pub use rank::{rank_network, Budget, ImmunizeConfig, ImmunizeError, OBJECTIVES};
