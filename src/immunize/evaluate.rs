@@ -15,9 +15,11 @@
 
 use rayon::prelude::*;
 
-use super::{nb_radius, Radius};
 use crate::network::{Network, NodeTable};
-use crate::percolation::{budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch};
+use crate::percolation::{
+    budget_curve_into, nonbacktracking_radius_with, BudgetCurve, BudgetCurveConfig,
+    PercolationError, Scratch, SpectralRadius, Transmissibility,
+};
 use crate::rng::{self, Stage};
 
 /// The budget as the evaluator applies it.
@@ -119,7 +121,7 @@ pub(crate) fn evaluate_sequence(
     grid: &[u64],
     scratch: &mut Scratch,
     curve: &mut BudgetCurve,
-) -> Result<RealizationOutcome, crate::percolation::PercolationError> {
+) -> Result<RealizationOutcome, PercolationError> {
     budget_curve_into(net, cfg, r, absent, seq, scratch, curve)?;
     let n = net.node_count();
     let last = curve.levels() - 1;
@@ -153,7 +155,13 @@ pub(crate) fn sequence_cost(seq: &[u32], doses: u64, nodes: &NodeTable) -> f64 {
 /// Occupation `φ_v` after the first `k` doses of `seq`: `1 − efficacy` for
 /// dosed people, 0 for absent ones, 1 otherwise (the expected residual
 /// network, as in Callaway et al. 2000).
-pub fn occupation(n: usize, absent: Option<&[bool]>, seq: &[u32], k: usize, efficacy: f64) -> Vec<f64> {
+pub fn occupation(
+    n: usize,
+    absent: Option<&[bool]>,
+    seq: &[u32],
+    k: usize,
+    efficacy: f64,
+) -> Vec<f64> {
     let mut phi: Vec<f64> =
         (0..n).map(|v| if absent.is_some_and(|a| a[v]) { 0.0 } else { 1.0 }).collect();
     for &v in &seq[..k.min(seq.len())] {
@@ -162,18 +170,22 @@ pub fn occupation(n: usize, absent: Option<&[bool]>, seq: &[u32], k: usize, effi
     phi
 }
 
+/// Iteration limit per 2-core component for the thresholds of a study.
+const RADIUS_ITERATIONS: u32 = 5_000;
+
 /// Radius of the unit-transmissibility (or per-edge weight) non-backtracking
-/// matrix after the first `k` doses; `r_eff = T · radius`.
-pub(crate) fn radius_after(
+/// matrix after the first `k` doses; `r_eff = T · radius`
+/// ([`nonbacktracking_radius_with`], Karrer, Newman & Zdeborová 2014).
+pub fn radius_after(
     net: &Network,
-    weights: &dyn Fn(usize) -> f64,
+    weights: &Transmissibility,
     absent: Option<&[bool]>,
     seq: &[u32],
     k: usize,
     efficacy: f64,
-) -> Radius {
+) -> Result<SpectralRadius, PercolationError> {
     let phi = occupation(net.node_count(), absent, seq, k, efficacy);
-    nb_radius(net, weights, &phi, 1e-6)
+    nonbacktracking_radius_with(net, weights, Some(&phi), 1e-6, RADIUS_ITERATIONS)
 }
 
 /// Fewest doses `k` of `seq` with `t · radius(k) < 1`, by binary search
@@ -184,53 +196,59 @@ pub(crate) fn radius_after(
 pub fn doses_to_contain(
     net: &Network,
     t: f64,
-    weights: &dyn Fn(usize) -> f64,
+    weights: &Transmissibility,
     absent: Option<&[bool]>,
     seq: &[u32],
     efficacy: f64,
-) -> Option<u64> {
-    let r = |k: usize| t * radius_after(net, weights, absent, seq, k, efficacy).estimate;
-    if r(0) < 1.0 {
-        return Some(0);
+) -> Result<Option<u64>, PercolationError> {
+    let r = |k: usize| -> Result<f64, PercolationError> {
+        Ok(t * radius_after(net, weights, absent, seq, k, efficacy)?.estimate)
+    };
+    if r(0)? < 1.0 {
+        return Ok(Some(0));
     }
-    if r(seq.len()) >= 1.0 {
-        return None;
+    if r(seq.len())? >= 1.0 {
+        return Ok(None);
     }
     let (mut lo, mut hi) = (0usize, seq.len()); // r(lo) >= 1, r(hi) < 1
     while hi - lo > 1 {
         let mid = lo + (hi - lo) / 2;
-        if r(mid) < 1.0 {
+        if r(mid)? < 1.0 {
             hi = mid;
         } else {
             lo = mid;
         }
     }
-    Some(hi as u64)
+    Ok(Some(hi as u64))
 }
 
 /// Runs every realization for every rule in parallel; the result is indexed
 /// `[realization][rule]` and does not depend on the thread count.
 #[allow(clippy::too_many_arguments)]
-pub(crate) fn run_all(
+pub(crate) fn run_all<'a, F>(
     net: &Network,
     nodes: &NodeTable,
     cfg: &BudgetCurveConfig,
     runs: u64,
     absent: Option<&[bool]>,
-    orders: &[&(dyn Fn(u64) -> std::borrow::Cow<'_, [u32]> + Sync)],
+    rules: usize,
+    order_of: &F,
     budget: DoseBudget,
     grid: &[u64],
     progress: &dyn crate::progress::Progress,
-) -> Result<Vec<Vec<RealizationOutcome>>, crate::percolation::PercolationError> {
+) -> Result<Vec<Vec<RealizationOutcome>>, PercolationError>
+where
+    F: Fn(usize, u64) -> std::borrow::Cow<'a, [u32]> + Sync,
+{
     let n = net.node_count();
     (0..runs)
         .into_par_iter()
         .map_init(
             || (Scratch::new(n), BudgetCurve::default()),
             |(scratch, curve), r| {
-                let mut row = Vec::with_capacity(orders.len());
-                for f in orders {
-                    let order = f(r);
+                let mut row = Vec::with_capacity(rules);
+                for i in 0..rules {
+                    let order = order_of(i, r);
                     let (seq, doses) = dose_sequence(&order, nodes, budget, cfg.seed, r);
                     let cost = sequence_cost(&seq, doses, nodes);
                     row.push(evaluate_sequence(

@@ -71,7 +71,9 @@ impl Budget {
                         .map(|x| (x, true))
                         .map_err(|_| ImmunizeError::Budget(t.clone()))
                 } else {
-                    tt.parse::<f64>().map(|x| (x, false)).map_err(|_| ImmunizeError::Budget(t.clone()))
+                    tt.parse::<f64>()
+                        .map(|x| (x, false))
+                        .map_err(|_| ImmunizeError::Budget(t.clone()))
                 }
             }
         }
@@ -251,7 +253,8 @@ fn resolve(loaded: &Loaded, cfg: &ImmunizeConfig) -> Result<Resolved, ImmunizeEr
         rules.extend(Rule::ALL);
     }
     for name in &cfg.rules {
-        let r = Rule::from_name(name.trim()).ok_or_else(|| ImmunizeError::UnknownRule(name.clone()))?;
+        let r =
+            Rule::from_name(name.trim()).ok_or_else(|| ImmunizeError::UnknownRule(name.clone()))?;
         if !rules.contains(&r) {
             rules.push(r);
         }
@@ -260,7 +263,8 @@ fn resolve(loaded: &Loaded, cfg: &ImmunizeConfig) -> Result<Resolved, ImmunizeEr
     let (amount, pct) = cfg.budget.clone().check()?.amount()?;
     let nodes = &loaded.nodes;
     let (budget, nominal) = if nodes.cost.is_some() {
-        let total: f64 = (0..n as u32).filter(|&v| !nodes.is_immune(v)).map(|v| nodes.cost_of(v)).sum();
+        let total: f64 =
+            (0..n as u32).filter(|&v| !nodes.is_immune(v)).map(|v| nodes.cost_of(v)).sum();
         let c = if pct { amount / 100.0 * total } else { amount };
         (DoseBudget::Cost(c), None)
     } else {
@@ -303,8 +307,10 @@ pub fn rank_network(
     let net = &loaded.network;
     let nodes = &loaded.nodes;
     let n = net.node_count();
-    let absent_vec: Option<Vec<bool>> =
-        nodes.immune.as_ref().map(|im| (0..n).map(|v| im.get(v).copied().unwrap_or(false)).collect());
+    let absent_vec: Option<Vec<bool>> = nodes
+        .immune
+        .as_ref()
+        .map(|im| (0..n).map(|v| im.get(v).copied().unwrap_or(false)).collect());
     let absent = absent_vec.as_deref();
     let params = RuleParams { ci_radius: cfg.ci_radius, dismantle_target: cfg.dismantle_target };
     let transmissibility = match net.weights() {
@@ -313,7 +319,12 @@ pub fn rank_network(
             w.iter().map(|&x| (cfg.transmissibility * x as f64).clamp(0.0, 1.0)).collect(),
         ),
     };
-    let weight_of = |e: usize| net.weights().map_or(1.0, |w| (w[e] as f64).clamp(0.0, 1.0));
+    let weight_of = match net.weights() {
+        None => Transmissibility::Uniform(1.0),
+        Some(w) => {
+            Transmissibility::PerEdge(w.iter().map(|&x| (x as f64).clamp(0.0, 1.0)).collect())
+        }
+    };
     let bcfg = BudgetCurveConfig::new(transmissibility, cfg.efficacy, cfg.seed);
     bcfg.validate(net)?;
     let empty: Vec<bool> = Vec::new();
@@ -347,16 +358,23 @@ pub fn rank_network(
             }
         }
     };
-    let closures: Vec<Box<dyn Fn(u64) -> Cow<'_, [u32]> + Sync + '_>> =
-        (0..res.rules.len()).map(|i| Box::new(move |r| order_of(i, r)) as Box<_>).collect();
-    let refs: Vec<&(dyn Fn(u64) -> Cow<'_, [u32]> + Sync)> = closures.iter().map(|b| b.as_ref()).collect();
 
-    let candidates = (0..n).filter(|&v| !absent_slice.get(v).copied().unwrap_or(false)).count() as u64;
+    let candidates =
+        (0..n).filter(|&v| !absent_slice.get(v).copied().unwrap_or(false)).count() as u64;
     let extra: Vec<u64> = res.nominal_doses.into_iter().collect();
     let grid = evaluate::curve_grid(candidates, cfg.curve_points, &extra);
     progress.phase("realizations", cfg.runs as u64);
     let table = evaluate::run_all(
-        net, nodes, &bcfg, cfg.runs as u64, absent, &refs, res.budget, &grid, progress,
+        net,
+        nodes,
+        &bcfg,
+        cfg.runs as u64,
+        absent,
+        res.rules.len(),
+        &order_of,
+        res.budget,
+        &grid,
+        progress,
     )?;
     progress.finish();
 
@@ -373,7 +391,7 @@ pub fn rank_network(
         baseline.insert(name.to_string(), Metric::Estimate(stats::mean_ci(&s)));
     }
     let t = cfg.transmissibility;
-    let base_radius = evaluate::radius_after(net, &weight_of, absent, &[], 0, cfg.efficacy);
+    let base_radius = evaluate::radius_after(net, &weight_of, absent, &[], 0, cfg.efficacy)?;
     baseline.insert("r_eff".into(), Metric::Number(t * base_radius.estimate));
     baseline.insert("below_threshold".into(), Metric::Flag(t * base_radius.upper < 1.0));
     baseline.insert("critical_transmissibility".into(), crit(base_radius.estimate));
@@ -382,7 +400,7 @@ pub fn rank_network(
     struct Det {
         seq: Vec<u32>,
         doses: u64,
-        radius: super::Radius,
+        radius: crate::percolation::SpectralRadius,
         contain: Option<u64>,
     }
     let dets: Vec<Det> = {
@@ -392,14 +410,20 @@ pub fn rank_network(
             .map(|i| {
                 let order = order_of(i, 0);
                 let (seq, doses) = evaluate::dose_sequence(&order, nodes, res.budget, cfg.seed, 0);
-                let radius =
-                    evaluate::radius_after(net, &weight_of, absent, &seq, doses as usize, cfg.efficacy);
+                let radius = evaluate::radius_after(
+                    net,
+                    &weight_of,
+                    absent,
+                    &seq,
+                    doses as usize,
+                    cfg.efficacy,
+                )?;
                 let contain =
-                    evaluate::doses_to_contain(net, t, &weight_of, absent, &seq, cfg.efficacy);
+                    evaluate::doses_to_contain(net, t, &weight_of, absent, &seq, cfg.efficacy)?;
                 progress.advance(1);
-                Det { seq, doses, radius, contain }
+                Ok(Det { seq, doses, radius, contain })
             })
-            .collect()
+            .collect::<Result<Vec<_>, ImmunizeError>>()?
     };
     progress.finish();
 
@@ -408,13 +432,19 @@ pub fn rank_network(
         let d = &dets[i];
         let mut metrics = Metrics::new();
         for (m, name) in METRICS3.iter().enumerate() {
-            metrics.insert(name.to_string(), Metric::Estimate(stats::mean_ci(&col(i, &|o| o.at_budget[m]))));
+            metrics.insert(
+                name.to_string(),
+                Metric::Estimate(stats::mean_ci(&col(i, &|o| o.at_budget[m]))),
+            );
         }
         let r_eff = t * d.radius.estimate;
         metrics.insert("r_eff".into(), Metric::Number(r_eff));
         metrics.insert("below_threshold".into(), Metric::Flag(t * d.radius.upper < 1.0));
         metrics.insert("critical_transmissibility".into(), crit(d.radius.estimate));
-        metrics.insert("robustness".into(), Metric::Estimate(stats::mean_ci(&col(i, &|o| o.robustness))));
+        metrics.insert(
+            "robustness".into(),
+            Metric::Estimate(stats::mean_ci(&col(i, &|o| o.robustness))),
+        );
         let contain = match d.contain {
             Some(k) => Metric::Count(k),
             None => Metric::Text(format!("not within {}", d.seq.len())),
@@ -422,19 +452,24 @@ pub fn rank_network(
         metrics.insert("doses_to_contain".into(), contain.clone());
         let doses = stats::mean_var(&col(i, &|o| o.doses as f64)).0;
         let mut extra = IndexMap::new();
-        extra.insert("doses_to_contain".into(), serde_json::to_value(&contain).unwrap_or(Value::Null));
+        extra.insert(
+            "doses_to_contain".into(),
+            serde_json::to_value(&contain).unwrap_or(Value::Null),
+        );
         extra.insert(
             "allocation".into(),
-            Value::from(d.seq[..d.doses as usize].iter().map(|&v| nodes.id(v).to_owned()).collect::<Vec<_>>()),
+            Value::from(
+                d.seq[..d.doses as usize]
+                    .iter()
+                    .map(|&v| nodes.id(v).to_owned())
+                    .collect::<Vec<_>>(),
+            ),
         );
         if rule.is_randomized() || nodes.uptake.is_some() {
             extra.insert("allocation_realization".into(), Value::from(0));
         }
         if nodes.cost.is_some() {
-            extra.insert(
-                "cost".into(),
-                est_json(&stats::mean_ci(&col(i, &|o| o.cost))),
-            );
+            extra.insert("cost".into(), est_json(&stats::mean_ci(&col(i, &|o| o.cost))));
         }
         let objective = match cfg.objective.as_str() {
             "r_eff" => r_eff,
@@ -463,7 +498,10 @@ pub fn rank_network(
         o.rank = rank as u32 + 1;
         let mut diffs = serde_json::Map::new();
         for (m, name) in METRICS3.iter().enumerate() {
-            let e = stats::paired_difference(&col(i, &|x| x.at_budget[m]), &col(best, &|x| x.at_budget[m]));
+            let e = stats::paired_difference(
+                &col(i, &|x| x.at_budget[m]),
+                &col(best, &|x| x.at_budget[m]),
+            );
             diffs.insert(name.to_string(), est_json(&e));
         }
         let e = stats::paired_difference(&col(i, &|x| x.robustness), &col(best, &|x| x.robustness));
