@@ -105,9 +105,12 @@ impl Network {
             }
         }
         let mut report = BuildReport::default();
-        // Pack each edge into a sortable key: high 32 bits source, low target.
-        let mut keyed: Vec<(u64, u32)> = Vec::with_capacity(edges.len());
-        for (i, &(u, v)) in edges.iter().enumerate() {
+        // Each edge becomes one sortable key `(a << bits) | b` with `a, b <
+        // n`; sorting keys sorts by `(source, target)`. The LSD radix sort
+        // is stable, so `First` keeps the first occurrence in input order.
+        let bits = if n <= 1 { 1 } else { 32 - (n - 1).leading_zeros() };
+        let low = (1u64 << bits) - 1;
+        let mut key_of = |i: usize, u: u32, v: u32| -> Result<Option<u64>, BuildError> {
             for x in [u, v] {
                 if x >= n {
                     return Err(BuildError::NodeOutOfRange { edge: i, node: x, nodes: n });
@@ -115,43 +118,63 @@ impl Network {
             }
             if u == v {
                 report.self_loops_dropped += 1;
-                continue;
+                return Ok(None);
             }
             let (a, b) = if directed || u < v { (u, v) } else { (v, u) };
-            keyed.push((((a as u64) << 32) | b as u64, i as u32));
-        }
-        drop(edges);
-        // Stable so that `First` keeps the first occurrence in input order.
-        keyed.sort_by_key(|&(k, _)| k);
-        let mut out_edges: Vec<[u32; 2]> = Vec::with_capacity(keyed.len());
-        let mut out_w: Vec<f32> = Vec::new();
-        let mut last = u64::MAX;
-        for &(k, i) in &keyed {
-            if k == last {
-                report.duplicates_merged += 1;
-                if let Some(w) = &weights {
-                    let cur = out_w.last_mut().expect("a merged edge follows its first copy");
-                    let x = w[i as usize];
-                    *cur = match merge {
-                        WeightMerge::Max => cur.max(x),
-                        WeightMerge::Sum => *cur + x,
-                        WeightMerge::First => *cur,
-                        WeightMerge::NoisyOr => 1.0 - (1.0 - *cur) * (1.0 - x),
-                    };
+            Ok(Some(((a as u64) << bits) | b as u64))
+        };
+        let decode = |k: u64| [(k >> bits) as u32, (k & low) as u32];
+        let (out_edges, weights) = match weights {
+            None => {
+                let mut keys: Vec<u64> = Vec::with_capacity(edges.len());
+                for (i, &(u, v)) in edges.iter().enumerate() {
+                    if let Some(k) = key_of(i, u, v)? {
+                        keys.push(k);
+                    }
                 }
-                continue;
+                drop(edges);
+                radix_sort(&mut keys, |&k| k, 2 * bits);
+                let before = keys.len();
+                keys.dedup();
+                report.duplicates_merged = (before - keys.len()) as u64;
+                let out: Vec<[u32; 2]> = keys.iter().map(|&k| decode(k)).collect();
+                (out, None)
             }
-            last = k;
-            out_edges.push([(k >> 32) as u32, k as u32]);
-            if let Some(w) = &weights {
-                out_w.push(w[i as usize]);
+            Some(w) => {
+                let mut keyed: Vec<(u64, f32)> = Vec::with_capacity(edges.len());
+                for (i, &(u, v)) in edges.iter().enumerate() {
+                    if let Some(k) = key_of(i, u, v)? {
+                        keyed.push((k, w[i]));
+                    }
+                }
+                drop(edges);
+                drop(w);
+                radix_sort(&mut keyed, |&(k, _)| k, 2 * bits);
+                let mut out: Vec<[u32; 2]> = Vec::with_capacity(keyed.len());
+                let mut out_w: Vec<f32> = Vec::with_capacity(keyed.len());
+                let mut last = u64::MAX;
+                for &(k, x) in &keyed {
+                    if k == last {
+                        report.duplicates_merged += 1;
+                        let cur = out_w.last_mut().expect("a merged edge follows its first copy");
+                        *cur = match merge {
+                            WeightMerge::Max => cur.max(x),
+                            WeightMerge::Sum => *cur + x,
+                            WeightMerge::First => *cur,
+                            WeightMerge::NoisyOr => 1.0 - (1.0 - *cur) * (1.0 - x),
+                        };
+                        continue;
+                    }
+                    last = k;
+                    out.push(decode(k));
+                    out_w.push(x);
+                }
+                (out, Some(out_w))
             }
-        }
-        drop(keyed);
+        };
         if out_edges.len() > u32::MAX as usize {
             return Err(BuildError::TooManyEdges(out_edges.len()));
         }
-        let weights = weights.map(|_| out_w);
         Ok((Network::from_sorted_unique(n, directed, out_edges, weights), report))
     }
 
@@ -325,6 +348,47 @@ impl Network {
     }
 }
 
+/// Stable LSD radix sort of `v` by the low `bits` bits of `key` (digits of
+/// at most 11 bits, passes where all keys share a digit are skipped); small
+/// inputs use the standard stable sort. O(passes · len) time, one scratch
+/// copy of `v`. Knuth, TAOCP vol. 3, §5.2.5 (radix sorting).
+fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: u32) {
+    if v.len() < 4096 {
+        v.sort_by_key(|x| key(x));
+        return;
+    }
+    let bits = bits.clamp(1, 64);
+    let passes = bits.div_ceil(11);
+    let d = bits.div_ceil(passes);
+    let mask = (1u64 << d) - 1;
+    let mut src = std::mem::take(v);
+    let mut dst: Vec<T> = vec![T::default(); src.len()];
+    let mut count = vec![0usize; 1 << d];
+    for p in 0..passes {
+        let shift = p * d;
+        count.iter_mut().for_each(|c| *c = 0);
+        for x in &src {
+            count[((key(x) >> shift) & mask) as usize] += 1;
+        }
+        if count.contains(&src.len()) {
+            continue;
+        }
+        let mut sum = 0;
+        for c in count.iter_mut() {
+            let k = *c;
+            *c = sum;
+            sum += k;
+        }
+        for x in &src {
+            let b = ((key(x) >> shift) & mask) as usize;
+            dst[count[b]] = *x;
+            count[b] += 1;
+        }
+        std::mem::swap(&mut src, &mut dst);
+    }
+    *v = src;
+}
+
 /// Counting-sort rows: `entries(e)` yields `(row, column)` pairs of edge `e`.
 fn rows<I: Iterator<Item = (u32, u32)>>(
     n: usize,
@@ -401,6 +465,34 @@ mod tests {
     fn out_of_range_is_an_error() {
         let r = Network::from_edges(2, false, vec![(0, 2)], None, WeightMerge::Max);
         assert!(matches!(r, Err(BuildError::NodeOutOfRange { node: 2, .. })));
+    }
+
+    #[test]
+    fn radix_sort_matches_stable_sort() {
+        // A fixed pseudo-random sequence (64-bit LCG, Knuth MMIX constants).
+        let mut x = 1u64;
+        let mut v: Vec<(u64, u32)> = (0..20_000u32)
+            .map(|i| {
+                x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+                ((x >> 40) % 5000, i)
+            })
+            .collect();
+        let mut expect = v.clone();
+        expect.sort_by_key(|p| p.0);
+        radix_sort(&mut v, |p| p.0, 13);
+        assert_eq!(v, expect);
+    }
+
+    #[test]
+    fn large_build_merges_like_small() {
+        // Enough edges for the radix path; every edge listed twice reversed.
+        let n = 3000u32;
+        let e: Vec<(u32, u32)> =
+            (0..n).flat_map(|i| [(i, (i * 7 + 1) % n), ((i * 7 + 1) % n, i)]).collect();
+        let (net, rep) = Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap();
+        assert_eq!(rep.duplicates_merged, 3000);
+        assert_eq!(net.edge_count(), 3000);
+        assert!(net.edges().windows(2).all(|w| w[0] < w[1]));
     }
 
     #[test]
