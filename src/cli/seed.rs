@@ -2,6 +2,8 @@
 
 use std::path::PathBuf;
 
+use anyhow::Context;
+
 use super::{OutputOpts, RunOpts};
 
 /// Arguments of `spreadplan seed`.
@@ -62,6 +64,87 @@ pub(crate) struct Args {
     pub(crate) output: OutputOpts,
 }
 
-pub(crate) fn run(_args: Args) -> anyhow::Result<()> {
-    anyhow::bail!("`seed` is not available yet")
+/// Reads a list of ids (one per line; `#` comments and blank lines skipped).
+fn read_ids(path: &std::path::Path) -> anyhow::Result<Vec<String>> {
+    let text = std::fs::read_to_string(path)
+        .with_context(|| format!("cannot read exclude file {}", path.display()))?;
+    Ok(text
+        .lines()
+        .map(str::trim)
+        .filter(|l| !l.is_empty() && !l.starts_with('#'))
+        .map(|l| l.split([',', '\t', ' ']).next().unwrap_or(l).to_owned())
+        .filter(|l| l != "id")
+        .collect())
+}
+
+pub(crate) fn run(args: Args) -> anyhow::Result<()> {
+    use spreadplan::network::load::EdgeListOptions;
+    use spreadplan::network::WeightMerge;
+    use spreadplan::seed::{rank_seeds, CascadeModel, SeedConfig, SEED_RULES};
+
+    let Some(path) = &args.network else {
+        anyhow::bail!(
+            "`seed --degrees/--degree-model` (degree-distribution mode) is not available yet; use --network"
+        );
+    };
+    super::common::init_threads(args.run.threads)?;
+    let model = if let Some(p) = args.adopt_prob {
+        anyhow::ensure!((0.0..=1.0).contains(&p), "--adopt-prob must be in [0, 1], got {p}");
+        CascadeModel::Uniform { p }
+    } else if args.prob_column.is_some() {
+        CascadeModel::EdgeProbabilities
+    } else {
+        CascadeModel::WeightedCascade
+    };
+    anyhow::ensure!(args.budget >= 1, "--budget must be at least 1, got {}", args.budget);
+    anyhow::ensure!(
+        args.epsilon > 0.0 && args.epsilon < 1.0,
+        "--epsilon must be in (0, 1), got {}",
+        args.epsilon
+    );
+    anyhow::ensure!(args.ell > 0.0, "--ell must be positive, got {}", args.ell);
+    anyhow::ensure!(args.run.runs >= 1, "--runs must be at least 1, got {}", args.run.runs);
+    let rules = match &args.rules {
+        Some(list) => super::common::parse_rules(list, SEED_RULES)?,
+        None => SEED_RULES.iter().map(|s| s.to_string()).collect(),
+    };
+    let opts = EdgeListOptions {
+        directed: args.directed,
+        weight_column: args.prob_column.clone(),
+        // Two records of one contact are two independent chances.
+        merge: WeightMerge::NoisyOr,
+    };
+    let loaded = super::common::load_network(path, &opts)?;
+    let n = loaded.network.node_count() as u64;
+    anyhow::ensure!(
+        args.budget <= n,
+        "--budget must be at most the number of people ({n}), got {}",
+        args.budget
+    );
+    let mut exclude = Vec::new();
+    if let Some(f) = &args.exclude {
+        let mut unknown = 0usize;
+        for id in read_ids(f)? {
+            match loaded.nodes.index(&id) {
+                Some(v) => exclude.push(v),
+                None => unknown += 1,
+            }
+        }
+        exclude.sort_unstable();
+        exclude.dedup();
+        if unknown > 0 && !args.output.quiet {
+            eprintln!(
+                "note: {unknown} already-adopted ids are not in the network and were ignored"
+            );
+        }
+    }
+    let mut cfg = SeedConfig::new(args.budget as usize, model);
+    cfg.rules = rules;
+    cfg.runs = args.run.runs;
+    cfg.seed = args.run.seed;
+    cfg.epsilon = args.epsilon;
+    cfg.ell = args.ell;
+    let study = rank_seeds(&loaded, &exclude, &cfg, &spreadplan::progress::Silent)
+        .context("cannot rank seeding rules")?;
+    super::common::emit(&study, &args.output)
 }

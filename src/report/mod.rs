@@ -4,7 +4,9 @@
 //! computes new numbers.
 
 pub mod csv;
+pub mod html;
 pub mod json;
+pub mod svg;
 pub mod table;
 
 use std::io::Write;
@@ -39,14 +41,16 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), ReportError> {
     std::fs::rename(&tmp, path).map_err(io)
 }
 
-/// Writes `ranking.csv`, `curves.csv`, `allocation.csv` and `summary.json`
-/// into `dir` (created if missing); returns the paths written.
+/// Writes `ranking.csv`, `curves.csv`, `allocation.csv`, `summary.json`
+/// and `report.html` into `dir` (created if missing), each atomically;
+/// returns the paths written.
 pub fn write_outputs(dir: &Path, study: &Study) -> Result<Vec<PathBuf>, ReportError> {
-    let files: [(&str, String); 4] = [
+    let files: [(&str, String); 5] = [
         ("ranking.csv", csv::ranking(study)),
         ("curves.csv", csv::curves(study)),
         ("allocation.csv", csv::allocation(study)),
         ("summary.json", json::to_string(study)),
+        ("report.html", html::render(study)),
     ];
     let mut written = Vec::new();
     for (name, text) in files {

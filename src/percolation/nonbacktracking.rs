@@ -1,0 +1,445 @@
+//! The message-passing threshold: the spectral radius of the
+//! transmissibility-weighted non-backtracking (Hashimoto) matrix of a
+//! residual network (Karrer, Newman & Zdeborová 2014, PRL 113:208702).
+//!
+//! On the `2M` directed edges of an undirected network,
+//! `B_{(u→v),(v→w)} = T_{vw} · φ_w` for `w ≠ u` (zero otherwise), where `T`
+//! is the transmissibility and `φ_w ∈ [0, 1]` the probability that `w` is
+//! susceptible (occupied). Bond percolation with these probabilities has a
+//! giant component on a locally tree-like network iff `ρ(B) > 1`; this
+//! radius is `r_eff`, and for uniform `T` the critical transmissibility is
+//! `1 / ρ(B_φ)` with `B_φ` the same matrix at `T = 1`.
+//!
+//! Method: nodes with `φ = 0` and edges with `T = 0` are removed, then the
+//! network is pruned to its 2-core (directed edges into a dangling tree are
+//! transient and add only zero eigenvalues); an empty 2-core gives `ρ = 0`.
+//! The radius of the whole matrix is the maximum over the connected
+//! components of the 2-core, so each component is iterated on its own,
+//! largest first, from the all-ones vector (positive on every edge). A
+//! component is skipped when its bound with the all-ones vector cannot beat
+//! the best lower bound found so far. Power iteration runs on the shifted
+//! matrix `B + s·I` with `s` the current estimate (at least 1): it has the
+//! same eigenvectors, and `ρ + s` strictly dominates every other eigenvalue
+//! `μ + s` of the same modulus class (bipartite networks and lattices give
+//! `B` the eigenvalue `−ρ`, which stalls plain power iteration). After each
+//! step the Collatz–Wielandt bounds `min_i (Bu)_i/u_i ≤ ρ ≤ max_i
+//! (Bu)_i/u_i`, valid for any nonnegative matrix and positive `u`, are
+//! computed on the component's edges; the iteration stops when `upper −
+//! lower ≤ tol · upper`. "Below threshold" is certified by `upper < 1`.
+
+use super::realization::{check_prob, PercolationError, Transmissibility};
+use crate::network::Network;
+
+/// Iteration limit per component of [`nonbacktracking_radius`].
+pub const NB_MAX_ITERATIONS: u32 = 20_000;
+
+/// The spectral radius of a non-negative matrix with certified bounds.
+#[derive(Clone, Copy, Debug, PartialEq, serde::Serialize)]
+pub struct SpectralRadius {
+    /// Point estimate, `(lower + upper) / 2`.
+    pub estimate: f64,
+    /// Collatz–Wielandt lower bound.
+    pub lower: f64,
+    /// Collatz–Wielandt upper bound.
+    pub upper: f64,
+    /// Power iterations spent (the largest over the components iterated).
+    pub iterations: u32,
+    /// Whether every component that could hold the maximum reached
+    /// `upper − lower ≤ tol · upper`.
+    pub converged: bool,
+}
+
+impl SpectralRadius {
+    /// The radius of a matrix known to be zero (empty 2-core).
+    pub fn zero() -> Self {
+        SpectralRadius { estimate: 0.0, lower: 0.0, upper: 0.0, iterations: 0, converged: true }
+    }
+}
+
+/// The critical transmissibility of a residual network for uniform `T`.
+#[derive(Clone, Copy, Debug, PartialEq, serde::Serialize)]
+pub struct CriticalTransmissibility {
+    /// `1 / ρ(B_φ)`; infinite when the 2-core is empty (no `T` reaches the
+    /// threshold).
+    pub estimate: f64,
+    /// `1 / upper` of the radius.
+    pub lower: f64,
+    /// `1 / lower` of the radius (infinite if the lower bound is 0).
+    pub upper: f64,
+    /// The radius `ρ(B_φ)` at `T = 1`.
+    pub radius: SpectralRadius,
+}
+
+/// The residual 2-core as compact rows over directed edges ("slots").
+struct Core {
+    /// Slot range of each core node, nodes grouped by component.
+    offsets: Vec<usize>,
+    /// Weight `T_{vw} φ_w` of slot `v → w`.
+    weight: Vec<f64>,
+    /// The reverse slot `w → v` of slot `v → w`.
+    rev: Vec<usize>,
+    /// The head `w` (core numbering) of slot `v → w`.
+    head: Vec<u32>,
+    /// Node ranges (in core numbering) of the components, largest first.
+    components: Vec<(usize, usize)>,
+}
+
+// Slot loops index targets and edge ids in step.
+#[allow(clippy::needless_range_loop)]
+fn residual_core(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+) -> Result<Core, PercolationError> {
+    if net.is_directed() {
+        return Err(PercolationError::Directed("the non-backtracking radius"));
+    }
+    t.validate(net)?;
+    let n = net.node_count();
+    let phi = |v: usize| occupation.map_or(1.0, |o| o[v]);
+    if let Some(o) = occupation {
+        if o.len() != n {
+            return Err(PercolationError::NodeCount { given: o.len(), nodes: n });
+        }
+        for (v, &x) in o.iter().enumerate() {
+            check_prob("occupation", x, Some(v))?;
+        }
+    }
+    let (offs, targets, eids) = net.out_rows();
+    let live = |v: usize, p: usize| {
+        let w = targets[p] as usize;
+        phi(v) > 0.0 && phi(w) > 0.0 && t.of(eids[p] as usize) > 0.0
+    };
+    // 2-core pruning by peeling nodes of residual degree < 2.
+    let mut deg: Vec<u32> = (0..n)
+        .map(|v| {
+            if phi(v) > 0.0 {
+                (offs[v] as usize..offs[v + 1] as usize).filter(|&p| live(v, p)).count() as u32
+            } else {
+                0
+            }
+        })
+        .collect();
+    let mut alive: Vec<bool> = (0..n).map(|v| phi(v) > 0.0).collect();
+    let mut stack: Vec<u32> =
+        (0..n as u32).filter(|&v| alive[v as usize] && deg[v as usize] < 2).collect();
+    while let Some(v) = stack.pop() {
+        let vi = v as usize;
+        if !alive[vi] {
+            continue;
+        }
+        alive[vi] = false;
+        for p in offs[vi] as usize..offs[vi + 1] as usize {
+            let w = targets[p] as usize;
+            if alive[w] && live(vi, p) {
+                deg[w] -= 1;
+                if deg[w] == 1 {
+                    stack.push(w as u32);
+                }
+            }
+        }
+    }
+    // Components of the core by BFS; core numbering groups them.
+    let mut label = vec![u32::MAX; n];
+    let mut order: Vec<u32> = Vec::new();
+    let mut comps: Vec<(usize, usize)> = Vec::new();
+    for s in 0..n {
+        if !alive[s] || label[s] != u32::MAX {
+            continue;
+        }
+        let start = order.len();
+        label[s] = start as u32;
+        order.push(s as u32);
+        let mut head = start;
+        while head < order.len() {
+            let v = order[head] as usize;
+            head += 1;
+            for p in offs[v] as usize..offs[v + 1] as usize {
+                let w = targets[p] as usize;
+                if alive[w] && live(v, p) && label[w] == u32::MAX {
+                    label[w] = order.len() as u32;
+                    order.push(w as u32);
+                }
+            }
+        }
+        comps.push((start, order.len()));
+    }
+    // Largest first (ties by first node, deterministic).
+    comps.sort_by_key(|&(a, b)| (std::cmp::Reverse(b - a), a));
+    // Compact slots; the two slots of an undirected edge share its edge id,
+    // which links each slot to its reverse in O(M).
+    let mut offsets = Vec::with_capacity(order.len() + 1);
+    let mut weight = Vec::new();
+    let mut slot_target: Vec<u32> = Vec::new();
+    let mut rev: Vec<usize> = Vec::new();
+    let mut first_slot = vec![usize::MAX; net.edge_count()];
+    offsets.push(0);
+    for &v in &order {
+        let vi = v as usize;
+        for p in offs[vi] as usize..offs[vi + 1] as usize {
+            let w = targets[p] as usize;
+            if alive[w] && live(vi, p) {
+                let e = eids[p] as usize;
+                let here = weight.len();
+                weight.push(t.of(e) * phi(w));
+                slot_target.push(label[w]);
+                rev.push(usize::MAX);
+                if first_slot[e] == usize::MAX {
+                    first_slot[e] = here;
+                } else {
+                    rev[here] = first_slot[e];
+                    rev[first_slot[e]] = here;
+                }
+            }
+        }
+        offsets.push(weight.len());
+    }
+    debug_assert!(rev.iter().all(|&r| r != usize::MAX));
+    Ok(Core { offsets, weight, rev, head: slot_target, components: comps })
+}
+
+/// The spectral radius of the weighted non-backtracking matrix
+/// `B_{(u→v),(v→w)} = T_{vw} φ_w` (`w ≠ u`) of an undirected network
+/// (Karrer, Newman & Zdeborová 2014): `r_eff` of the residual network. Nodes
+/// with `φ = 0` are removed; `occupation = None` means `φ ≡ 1`. `tol` is the
+/// relative gap `(upper − lower) / upper` at which iteration stops (e.g.
+/// `1e-6`). Method and periodicity handling: module doc.
+///
+/// ```
+/// use spreadplan::network::{Network, WeightMerge};
+/// use spreadplan::percolation::{nonbacktracking_radius, Transmissibility};
+/// // K4 is 3-regular: every directed edge has 2 non-backtracking successors.
+/// let e = vec![(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)];
+/// let (k4, _) = Network::from_edges(4, false, e, None, WeightMerge::Max).unwrap();
+/// let r = nonbacktracking_radius(&k4, &Transmissibility::Uniform(0.5), None, 1e-9).unwrap();
+/// assert!((r.estimate - 1.0).abs() < 1e-9 && r.converged);
+/// ```
+pub fn nonbacktracking_radius(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+    tol: f64,
+) -> Result<SpectralRadius, PercolationError> {
+    nonbacktracking_radius_with(net, t, occupation, tol, NB_MAX_ITERATIONS)
+}
+
+/// [`nonbacktracking_radius`] with an explicit iteration limit per
+/// component.
+pub fn nonbacktracking_radius_with(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+    tol: f64,
+    max_iterations: u32,
+) -> Result<SpectralRadius, PercolationError> {
+    if !(tol.is_finite() && tol > 0.0) {
+        return Err(PercolationError::Probability { what: "tolerance", value: tol, index: None });
+    }
+    let core = residual_core(net, t, occupation)?;
+    if core.weight.is_empty() {
+        return Ok(SpectralRadius::zero());
+    }
+    let mut x = vec![0.0f64; core.weight.len()];
+    let mut y = vec![0.0f64; core.weight.len()];
+    let mut node_sum: Vec<f64> = vec![0.0; core.offsets.len() - 1];
+    // Per component: (lower, upper, converged, iterations).
+    let mut found: Vec<(f64, f64, bool, u32)> = Vec::new();
+    let mut best_lower = 0.0f64;
+    for &(a, b) in &core.components {
+        let (sa, sb) = (core.offsets[a], core.offsets[b]);
+        x[sa..sb].fill(1.0);
+        let mut iterations = 0u32;
+        loop {
+            // S_w = Σ_{q leaving w} weight_q x_q.
+            for (w, sum) in node_sum.iter_mut().enumerate().take(b).skip(a) {
+                let (p, q) = (core.offsets[w], core.offsets[w + 1]);
+                *sum = (p..q).map(|k| core.weight[k] * x[k]).sum();
+            }
+            // y_{v→w} = S_w − weight_{w→v} x_{w→v}: all successors but the reverse.
+            let (mut lo, mut hi) = (f64::INFINITY, 0.0f64);
+            for p in sa..sb {
+                let r = core.rev[p];
+                let yp = (node_sum[core.head[p] as usize] - core.weight[r] * x[r]).max(0.0);
+                y[p] = yp;
+                let ratio = yp / x[p];
+                lo = lo.min(ratio);
+                hi = hi.max(ratio);
+            }
+            if iterations == 0 && hi <= best_lower {
+                // Bounded by a component already found: cannot hold the maximum.
+                break;
+            }
+            let done = hi - lo <= tol * hi;
+            if done || iterations >= max_iterations {
+                best_lower = best_lower.max(lo);
+                found.push((lo, hi, done, iterations));
+                break;
+            }
+            // x ← (B + s I) x with s the current estimate (at least 1),
+            // normalized by its maximum.
+            let s = (0.5 * (lo + hi)).max(1.0);
+            let mut m = 0.0f64;
+            for p in sa..sb {
+                x[p] = y[p] + s * x[p];
+                m = m.max(x[p]);
+            }
+            let inv = 1.0 / m;
+            for xp in &mut x[sa..sb] {
+                // Keep u > 0 so the bounds stay defined.
+                *xp = (*xp * inv).max(f64::MIN_POSITIVE);
+            }
+            iterations += 1;
+        }
+    }
+    let lower = found.iter().map(|f| f.0).fold(0.0, f64::max);
+    let upper = found.iter().map(|f| f.1).fold(0.0, f64::max);
+    // A component whose upper bound is below the overall lower bound cannot
+    // hold the maximum; its convergence does not matter.
+    let converged = found.iter().all(|&(_, hi, done, _)| done || hi <= lower);
+    let iterations = found.iter().map(|f| f.3).max().unwrap_or(0);
+    Ok(SpectralRadius { estimate: 0.5 * (lower + upper), lower, upper, iterations, converged })
+}
+
+/// The critical uniform transmissibility of a residual network: `1 /
+/// ρ(B_φ)` with `B_φ` the non-backtracking matrix at `T = 1` and node
+/// weights `φ` (the unweighted matrix of the residual when `φ ∈ {0, 1}`);
+/// Karrer, Newman & Zdeborová 2014. Bounds come from the radius bounds.
+///
+/// ```
+/// use spreadplan::network::{Network, WeightMerge};
+/// use spreadplan::percolation::critical_transmissibility;
+/// let e = vec![(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)];
+/// let (k4, _) = Network::from_edges(4, false, e, None, WeightMerge::Max).unwrap();
+/// let c = critical_transmissibility(&k4, None, 1e-9).unwrap();
+/// assert!((c.estimate - 0.5).abs() < 1e-9);
+/// ```
+pub fn critical_transmissibility(
+    net: &Network,
+    occupation: Option<&[f64]>,
+    tol: f64,
+) -> Result<CriticalTransmissibility, PercolationError> {
+    let radius = nonbacktracking_radius(net, &Transmissibility::Uniform(1.0), occupation, tol)?;
+    let inv = |x: f64| if x > 0.0 { 1.0 / x } else { f64::INFINITY };
+    Ok(CriticalTransmissibility {
+        estimate: inv(radius.estimate),
+        lower: inv(radius.upper),
+        upper: inv(radius.lower),
+        radius,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::network::WeightMerge;
+
+    fn net(n: u32, e: Vec<(u32, u32)>) -> Network {
+        Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap().0
+    }
+
+    fn radius(g: &Network) -> SpectralRadius {
+        nonbacktracking_radius(g, &Transmissibility::Uniform(1.0), None, 1e-10).unwrap()
+    }
+
+    /// Circulant k-regular graph (k even): i ~ i ± 1..k/2.
+    fn circulant(n: u32, k: u32) -> Network {
+        let mut e = Vec::new();
+        for i in 0..n {
+            for d in 1..=k / 2 {
+                e.push((i, (i + d) % n));
+            }
+        }
+        net(n, e)
+    }
+
+    #[test]
+    fn regular_cycle_tree_star() {
+        // k-regular: the all-ones vector is an eigenvector, ρ = k − 1 exactly.
+        for k in [2, 4, 6] {
+            let r = radius(&circulant(30, k));
+            assert_eq!((r.lower, r.upper), ((k - 1) as f64, (k - 1) as f64), "k={k}");
+        }
+        // Cycle: ρ = 1.
+        assert_eq!(radius(&circulant(7, 2)).estimate, 1.0);
+        // Tree (path) and star: empty 2-core, ρ = 0.
+        assert_eq!(radius(&net(5, vec![(0, 1), (1, 2), (2, 3), (3, 4)])), SpectralRadius::zero());
+        assert_eq!(radius(&net(5, vec![(0, 1), (0, 2), (0, 3), (0, 4)])), SpectralRadius::zero());
+    }
+
+    #[test]
+    fn complete_bipartite_is_periodic_but_converges() {
+        // K_{a,b}: by symmetry λ x_{A→B} = (a−1) x_{B→A}, λ x_{B→A} = (b−1) x_{A→B},
+        // so ρ = √((a−1)(b−1)); B has the eigenvalue −ρ too (bipartite).
+        let (a, b) = (3u32, 6u32);
+        let mut e = Vec::new();
+        for i in 0..a {
+            for j in 0..b {
+                e.push((i, a + j));
+            }
+        }
+        let g = net(a + b, e);
+        let r = radius(&g);
+        let want = (((a - 1) * (b - 1)) as f64).sqrt();
+        assert!(r.converged && (r.estimate - want).abs() < 1e-8, "{r:?} vs {want}");
+        assert!(r.lower <= want && want <= r.upper);
+    }
+
+    #[test]
+    fn disconnected_takes_the_largest_component() {
+        // A triangle (ρ = 1) beside K4 (ρ = 2), plus a pendant path on the triangle.
+        let mut e = vec![(0, 1), (1, 2), (0, 2), (2, 9)];
+        for (i, j) in [(3, 4), (3, 5), (3, 6), (4, 5), (4, 6), (5, 6)] {
+            e.push((i, j));
+        }
+        let r = radius(&net(10, e));
+        assert!((r.estimate - 2.0).abs() < 1e-9 && r.converged, "{r:?}");
+    }
+
+    #[test]
+    fn weights_and_occupation_scale() {
+        // Uniform T and φ on a k-regular graph: ρ = T·φ·(k − 1).
+        let g = circulant(20, 4);
+        let phi = vec![0.5; 20];
+        let r =
+            nonbacktracking_radius(&g, &Transmissibility::Uniform(0.4), Some(&phi), 1e-10).unwrap();
+        assert!((r.estimate - 0.4 * 0.5 * 3.0).abs() < 1e-12);
+        // Removing a node (φ = 0) of a cycle leaves a path: ρ = 0.
+        let mut phi = vec![1.0; 7];
+        phi[3] = 0.0;
+        let r = nonbacktracking_radius(
+            &circulant(7, 2),
+            &Transmissibility::Uniform(1.0),
+            Some(&phi),
+            1e-9,
+        )
+        .unwrap();
+        assert_eq!(r.estimate, 0.0);
+        let c = critical_transmissibility(&circulant(7, 2), Some(&phi), 1e-9).unwrap();
+        assert!(c.estimate.is_infinite());
+    }
+
+    #[test]
+    fn bounds_bracket_an_irregular_graph() {
+        // Wheel-like graph: irregular, so the first bounds differ; they must
+        // close to within tol and keep bracketing.
+        let mut e = Vec::new();
+        for i in 1..9u32 {
+            e.push((0, i));
+            e.push((i, if i == 8 { 1 } else { i + 1 }));
+        }
+        e.push((2, 6));
+        let g = net(9, e);
+        let r = radius(&g);
+        assert!(r.converged && r.lower <= r.upper && r.upper - r.lower <= 1e-10 * r.upper);
+        assert!(r.iterations > 0);
+    }
+
+    #[test]
+    fn bad_input_is_an_error() {
+        let g = circulant(5, 2);
+        assert!(nonbacktracking_radius(&g, &Transmissibility::Uniform(1.5), None, 1e-6).is_err());
+        assert!(nonbacktracking_radius(&g, &Transmissibility::Uniform(0.5), Some(&[0.5]), 1e-6)
+            .is_err());
+        assert!(nonbacktracking_radius(&g, &Transmissibility::Uniform(0.5), None, 0.0).is_err());
+    }
+}
