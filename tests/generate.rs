@@ -460,6 +460,9 @@ fn cli_generate_refuses_bad_parameters() {
         &["generate", "gnp", "--n", "10", "--p", "1.5", "-o", o],
         &["generate", "ws", "--n", "10", "--k", "3", "--beta", "0.1", "-o", o],
         &["generate", "ba", "--n", "10", "--m", "2"],
+        &["generate", "gnp", "--n", "1000000", "--p", "0.5", "-o", o],
+        &["generate", "square", "--side", "70000", "-o", o],
+        &["generate", "sbm", "--sizes", "2,2", "--probs", "0.1,0.2;0.3,0.1", "-o", o],
     ] {
         let out = spreadplan(args);
         assert_eq!(out.status.code(), Some(2), "{args:?}");
