@@ -37,8 +37,14 @@ pub enum LpAllocError {
     },
     /// The solver said no (typically: floors cannot be met within the
     /// budget or uptake).
-    #[error("lp allocation: {0}")]
-    Lp(#[from] LpError),
+    #[error("lp allocation: {0} (check that the group floors fit within the budget and uptake)")]
+    Lp(LpError),
+}
+
+impl From<LpError> for LpAllocError {
+    fn from(e: LpError) -> Self {
+        LpAllocError::Lp(e)
+    }
 }
 
 /// Classes of people with their sizes, dose costs and uptakes.
