@@ -96,10 +96,9 @@ impl Rule {
             Rule::Random => "none",
             Rule::Acquaintance => "a named contact",
             Rule::Degree | Rule::Lp => "contact counts",
-            Rule::DegreeAdaptive
-            | Rule::Coreness
-            | Rule::CoreHd
-            | Rule::CollectiveInfluence => "whole network",
+            Rule::DegreeAdaptive | Rule::Coreness | Rule::CoreHd | Rule::CollectiveInfluence => {
+                "whole network"
+            }
         }
     }
 
