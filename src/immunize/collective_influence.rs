@@ -166,7 +166,7 @@ fn reinsert(present: &Present<'_>, order: Vec<u32>, target: f64) -> Vec<u32> {
         }
     }
     let mut roots: Vec<u32> = Vec::new();
-    let mut key_of = |uf: &mut UnionFind, v: u32, roots: &mut Vec<u32>| -> (u32, u32) {
+    let key_of = |uf: &mut UnionFind, v: u32, roots: &mut Vec<u32>| -> (u32, u32) {
         roots.clear();
         for &u in net.neighbors(v) {
             if uf.is_active(u) {

@@ -92,10 +92,9 @@ impl Rule {
             Rule::Random => "none",
             Rule::Acquaintance => "a named contact",
             Rule::Degree => "contact counts",
-            Rule::DegreeAdaptive
-            | Rule::Coreness
-            | Rule::CoreHd
-            | Rule::CollectiveInfluence => "whole network",
+            Rule::DegreeAdaptive | Rule::Coreness | Rule::CoreHd | Rule::CollectiveInfluence => {
+                "whole network"
+            }
         }
     }
 

@@ -208,7 +208,7 @@ impl Network {
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
             (net.in_offsets, net.in_sources, net.in_edge_ids) = (io, is, iid);
         } else {
-            let (o, t, id) = rows(nn, &net.edges, |e| [(e[0], e[1]), (e[1], e[0])].into_iter());
+            let (o, t, id) = rows_undirected(nn, &net.edges);
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
         }
         net
@@ -389,6 +389,50 @@ fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: 
     *v = src;
 }
 
+/// Counting-sort rows of an undirected network: each edge `(a, b)`, `a <
+/// b`, goes to row `a` as `b` and to row `b` as `a`. Edges sorted by
+/// `(a, b)` make every row ascending (entries below the row come first).
+/// Works in batches: slots are computed first, then written, so the random
+/// accesses of a batch overlap.
+fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    let mut offsets = vec![0u64; n + 1];
+    for e in edges {
+        offsets[e[0] as usize + 1] += 1;
+        offsets[e[1] as usize + 1] += 1;
+    }
+    for i in 0..n {
+        offsets[i + 1] += offsets[i];
+    }
+    let total = offsets[n] as usize;
+    let mut cols = vec![0u32; total];
+    let mut ids = vec![0u32; total];
+    let mut next: Vec<u64> = offsets[..n].to_vec();
+    const BATCH: usize = 512;
+    let mut slots = [0u64; BATCH];
+    for (c, chunk) in edges.chunks(BATCH).enumerate() {
+        let base = (c * BATCH) as u32;
+        // Entries below the row first (see above), then the forward ones.
+        for (k, e) in chunk.iter().enumerate() {
+            let r = e[1] as usize;
+            slots[k] = next[r];
+            next[r] += 1;
+        }
+        for (k, e) in chunk.iter().enumerate() {
+            let s = slots[k] as usize;
+            cols[s] = e[0];
+            ids[s] = base + k as u32;
+        }
+        for (k, e) in chunk.iter().enumerate() {
+            let r = e[0] as usize;
+            let s = next[r] as usize;
+            next[r] += 1;
+            cols[s] = e[1];
+            ids[s] = base + k as u32;
+        }
+    }
+    (offsets, cols, ids)
+}
+
 /// Counting-sort rows: `entries(e)` yields `(row, column)` pairs of edge `e`.
 fn rows<I: Iterator<Item = (u32, u32)>>(
     n: usize,
@@ -493,6 +537,13 @@ mod tests {
         assert_eq!(rep.duplicates_merged, 3000);
         assert_eq!(net.edge_count(), 3000);
         assert!(net.edges().windows(2).all(|w| w[0] < w[1]));
+        // Rows ascending, and each entry's edge id names the same pair.
+        for v in 0..n {
+            assert!(net.neighbors(v).windows(2).all(|w| w[0] < w[1]), "row {v}");
+            for (&u, &e) in net.neighbors(v).iter().zip(net.neighbor_edges(v)) {
+                assert_eq!(net.edges()[e as usize], [u.min(v), u.max(v)]);
+            }
+        }
     }
 
     #[test]
