@@ -371,6 +371,41 @@ proptest! {
     }
 }
 
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+
+    /// The fast path (plain `u,v` integer lines) and the general parser
+    /// (taken when a weight column is read) give the same network and ids.
+    #[test]
+    fn fast_and_general_paths_agree(
+        edges in proptest::collection::vec((0u32..3000, 0u32..3000, 0u8..4), 1..400)
+    ) {
+        let d = tempdir("fast-general");
+        let mut plain = String::new();
+        let mut with_w = String::new();
+        for &(u, v, style) in &edges {
+            // Mix forms: leading zeros and spaces go to the general parser
+            // inside the plain file too.
+            let (a, b) = match style {
+                0 => (format!("0{u}"), v.to_string()),
+                1 => (format!(" {u}"), format!("{v} ")),
+                _ => (u.to_string(), v.to_string()),
+            };
+            plain.push_str(&format!("{a},{b}\n"));
+            with_w.push_str(&format!("{a},{b},1\n"));
+        }
+        let p = load_edge_list(&write(&d, "p.csv", &plain), &opts()).unwrap();
+        let w = load_edge_list(&write(&d, "w.csv", &with_w), &weighted("3")).unwrap();
+        prop_assert_eq!(p.network.edges(), w.network.edges());
+        prop_assert_eq!(p.nodes.len(), w.nodes.len());
+        for v in 0..p.nodes.len() as u32 {
+            prop_assert_eq!(p.nodes.id(v), w.nodes.id(v));
+        }
+        prop_assert_eq!(p.report.duplicates_merged, w.report.duplicates_merged);
+        prop_assert_eq!(p.report.self_loops_dropped, w.report.self_loops_dropped);
+    }
+}
+
 // ---------------------------------------------------------------------------
 // The binary.
 
