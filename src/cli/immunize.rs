@@ -65,8 +65,40 @@ pub(crate) struct Args {
 }
 
 pub(crate) fn run(args: Args) -> anyhow::Result<()> {
-    if args.network.is_none() {
+    let Some(path) = args.network.clone() else {
         return super::immunize_degrees::run(args);
+    };
+    use anyhow::Context;
+    use spreadplan::immunize::{rank_network, Budget, ImmunizeConfig, NETWORK_RULES};
+    use spreadplan::network::load::{load_node_table, EdgeListOptions};
+    super::common::init_threads(args.run.threads)?;
+    let budget = Budget::parse(&args.budget)?;
+    let mut cfg = ImmunizeConfig::new(budget, args.transmissibility);
+    cfg.efficacy = args.efficacy;
+    if let Some(list) = &args.rules {
+        cfg.rules = super::common::parse_rules(list, NETWORK_RULES)?;
     }
-    anyhow::bail!("`immunize --network` is not available yet")
+    cfg.objective = args.objective.clone();
+    cfg.runs = args.run.runs;
+    cfg.seed = args.run.seed;
+    cfg.ci_radius = args.ci_radius;
+    // Fail on bad parameters before reading a large file.
+    if !(0.0..=1.0).contains(&cfg.transmissibility) {
+        anyhow::bail!(spreadplan::immunize::ImmunizeError::Transmissibility(cfg.transmissibility));
+    }
+    if !(cfg.efficacy > 0.0 && cfg.efficacy <= 1.0) {
+        anyhow::bail!(spreadplan::immunize::ImmunizeError::Efficacy(cfg.efficacy));
+    }
+    let opts = EdgeListOptions {
+        directed: args.directed,
+        weight_column: args.weight_column.clone(),
+        ..Default::default()
+    };
+    let mut loaded = super::common::load_network(&path, &opts)?;
+    if let Some(np) = &args.nodes {
+        load_node_table(np, &mut loaded)
+            .with_context(|| format!("cannot load node table {}", np.display()))?;
+    }
+    let study = rank_network(&loaded, &cfg, &spreadplan::progress::Silent)?;
+    super::common::emit(&study, &args.output)
 }

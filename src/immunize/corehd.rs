@@ -164,7 +164,8 @@ pub(crate) fn break_forest(
             if removed[u as usize] {
                 continue;
             }
-            let piece = if u == parent[c as usize] { size - sub[c as usize] } else { sub[u as usize] };
+            let piece =
+                if u == parent[c as usize] { size - sub[c as usize] } else { sub[u as usize] };
             heap.push((piece, Reverse(u)));
         }
     }

@@ -8,19 +8,26 @@
 //! [`rank_network`] builds the ranked [`Study`](crate::outcome::Study).
 
 mod acquaintance;
+pub mod analytic;
 mod collective_influence;
 mod corehd;
 mod coreness;
 mod degree;
+mod evaluate;
+pub mod lp_allocation;
 mod random;
+mod rank;
 mod rule;
-mod spectral;
 
 pub use acquaintance::acquaintance_order;
 pub use collective_influence::collective_influence_order;
 pub use corehd::corehd_order;
 pub use coreness::{core_numbers_present, coreness_order};
 pub use degree::{degree_adaptive_order, degree_order};
+pub use evaluate::{
+    curve_grid, dose_sequence, doses_to_contain, occupation, radius_after, DoseBudget,
+    RealizationOutcome,
+};
 pub use random::random_order;
+pub use rank::{rank_network, Budget, ImmunizeConfig, ImmunizeError, OBJECTIVES};
 pub use rule::{removal_order, Present, Rule, RuleParams, NETWORK_RULES};
-pub use spectral::{nb_radius, Radius};
