@@ -23,9 +23,6 @@ pub(crate) fn run(args: super::immunize::Args) -> anyhow::Result<()> {
              --degrees table"
         );
     }
-    if args.simulate.is_some() {
-        anyhow::bail!("--simulate is not available yet in distribution mode");
-    }
     let rules = match &args.rules {
         Some(list) => parse_rules(list, spreadplan::immunize::analytic::DISTRIBUTION_RULES)?,
         None => Vec::new(),
@@ -46,5 +43,31 @@ pub(crate) fn run(args: super::immunize::Args) -> anyhow::Result<()> {
         study.input.insert("path".into(), path.display().to_string().into());
     }
     study.parameters.insert("seed".into(), args.run.seed.into());
+    if let Some(n_sim) = args.simulate {
+        use spreadplan::immunize::{analytic, rank_network, Budget, ImmunizeConfig};
+        super::common::init_threads(args.run.threads)?;
+        anyhow::ensure!(
+            (2..=u32::MAX as u64).contains(&n_sim),
+            "--simulate must be between 2 and {}, got {n_sim}",
+            u32::MAX
+        );
+        // A count budget is rescaled to the sampled size; a share stays.
+        let budget = if args.budget.trim().ends_with('%') {
+            Budget::parse(&args.budget)?
+        } else {
+            let b = analytic::parse_budget(&args.budget, population as f64)?;
+            Budget::Amount((b * n_sim as f64 / population as f64).round())
+        };
+        let mut sim = ImmunizeConfig::new(budget, args.transmissibility);
+        sim.efficacy = args.efficacy;
+        sim.rules = cfg.rules.clone();
+        sim.objective = args.objective.clone();
+        sim.runs = args.run.runs;
+        sim.seed = args.run.seed;
+        sim.ci_radius = args.ci_radius;
+        let loaded = analytic::sample_network(&dist, n_sim as usize, args.run.seed)?;
+        let simulated = rank_network(&loaded, &sim, &spreadplan::progress::Silent)?;
+        analytic::merge_simulated(&mut study, &simulated, n_sim, population);
+    }
     emit(&study, &args.output)
 }
