@@ -103,30 +103,38 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
     let mut val = vec![0u64; n];
     type Key = (u64, u32, Reverse<u32>);
     let mut heap: BinaryHeap<Key> = BinaryHeap::new();
+    // `bound[v]`: key of v's heap entry that is at least v's current key.
+    // A key that falls pushes nothing (the old entry is re-pushed with the
+    // current key when it surfaces); a key that rises pushes a new entry.
+    let mut bound: Vec<(u64, u32)> = vec![(0, 0); n];
     for v in present.candidates() {
         val[v as usize] = ci(net, &alive, &deg, &mut ball, v, radius);
+        bound[v as usize] = (val[v as usize], deg[v as usize]);
         heap.push((val[v as usize], deg[v as usize], Reverse(v)));
     }
     let mut order = Vec::with_capacity(heap.len());
     let mut inner: Vec<u32> = Vec::new();
-    let mut outer: Vec<u32> = Vec::new();
     while let Some((c, d, Reverse(v))) = heap.pop() {
         let vi = v as usize;
-        if !alive[vi] || val[vi] != c || deg[vi] != d {
+        if !alive[vi] {
+            continue;
+        }
+        if val[vi] != c || deg[vi] != d {
+            if bound[vi] == (c, d) {
+                bound[vi] = (val[vi], deg[vi]);
+                heap.push((val[vi], deg[vi], Reverse(v)));
+            }
             continue;
         }
         // Distances from v before its removal, to depth ℓ + 1.
         near.search(net, &alive, v, radius + 1);
         inner.clear();
-        outer.clear();
         for &u in &near.queue {
             if u == v {
                 continue;
             }
             if near.dist[u as usize] <= radius || radius == 0 {
                 inner.push(u);
-            } else {
-                outer.push(u);
             }
         }
         alive[vi] = false;
@@ -151,9 +159,6 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
                     }
                 }
             }
-            for &u in &outer {
-                heap.push((val[u as usize], deg[u as usize], Reverse(u)));
-            }
         }
         for &u in net.neighbors(v) {
             if alive[u as usize] {
@@ -161,9 +166,12 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
             }
         }
         for &u in &inner {
-            let x = ci(net, &alive, &deg, &mut ball, u, radius);
-            val[u as usize] = x;
-            heap.push((x, deg[u as usize], Reverse(u)));
+            let ui = u as usize;
+            val[ui] = ci(net, &alive, &deg, &mut ball, u, radius);
+            if (val[ui], deg[ui]) > bound[ui] {
+                bound[ui] = (val[ui], deg[ui]);
+                heap.push((val[ui], deg[ui], Reverse(u)));
+            }
         }
     }
     reinsert(present, order, target)
