@@ -136,6 +136,10 @@ pub struct Cascade<'a> {
     in_thr: Vec<u64>,
     /// Probability of each arc aligned with the out-rows (for degree discount).
     out_p: Vec<f32>,
+    /// When every in-arc of `v` has the same probability: that probability
+    /// per node (weighted cascade) or one value for all (uniform); empty
+    /// otherwise. RR sampling then skips geometrically over dead arcs.
+    in_row_p: Vec<f64>,
     /// Already adopted: removed from the cascade.
     blocked: Vec<bool>,
     active: usize,
@@ -204,6 +208,13 @@ impl<'a> Cascade<'a> {
             }
         }
         let out_thr: Vec<u64> = out_p.iter().map(|&p| threshold(f64::from(p))).collect();
+        let in_row_p = match model {
+            CascadeModel::Uniform { p } => vec![*p],
+            CascadeModel::WeightedCascade => {
+                (0..n as u32).map(|v| 1.0 / net.in_degree(v).max(1) as f64).collect()
+            }
+            CascadeModel::EdgeProbabilities => Vec::new(),
+        };
         let in_thr = if symmetric || matches!(model, CascadeModel::Uniform { .. }) {
             Vec::new()
         } else if net.is_directed() {
@@ -224,7 +235,7 @@ impl<'a> Cascade<'a> {
             }
             t
         };
-        Ok(Cascade { net, symmetric, out_thr, in_thr, out_p, blocked, active })
+        Ok(Cascade { net, symmetric, out_thr, in_thr, out_p, in_row_p, blocked, active })
     }
 
     /// The network.
@@ -273,6 +284,16 @@ impl<'a> Cascade<'a> {
             &self.out_thr
         } else {
             &self.in_thr
+        }
+    }
+
+    /// The common probability of all in-arcs of `v`, if they share one.
+    #[inline]
+    pub(crate) fn in_row_probability(&self, v: u32) -> Option<f64> {
+        match self.in_row_p.len() {
+            0 => None,
+            1 => Some(self.in_row_p[0]),
+            _ => Some(self.in_row_p[v as usize]),
         }
     }
 

@@ -180,6 +180,16 @@ impl RrSets {
 }
 
 /// One RR set: reverse BFS from a random root over live in-arcs.
+///
+/// Each arc's coin is consulted at most once per set (an arc matters only
+/// while its head is visited and its tail is not), so the arcs of one set
+/// are independent draws. When all in-arcs of a node share one probability
+/// `p` (uniform model, weighted cascade), the live ones are found by
+/// geometric skips — the gap to the next live arc is
+/// `⌊ln U / ln(1 − p)⌋`, `U` uniform on `(0, 1]` — which gives the same
+/// distribution with about `p · degree` draws instead of `degree`
+/// (standard Bernoulli-sequence sampling, e.g. Devroye 1986, ch. X.2).
+/// All draws of set `j` come from its key `k`.
 fn sample_one(
     c: &Cascade<'_>,
     roots: &[u32],
@@ -190,24 +200,58 @@ fn sample_one(
 ) {
     let (offsets, sources, eids) = c.network().in_rows();
     let thr = c.in_thresholds();
-    // Root: the top bits of a coin outside the arc index range (u64::MAX).
+    // Root: a draw outside the arc and counter ranges (u64::MAX).
     let r = ((u128::from(hash(k, u64::MAX)) * roots.len() as u128) >> 64) as usize;
     let root = roots[r];
     stamp[root as usize] = g;
     let start = members.len();
     members.push(root);
     let mut head = start;
+    // Counter of geometric draws, from the top of the index range down so
+    // it never meets a coin index.
+    let mut draw = u64::MAX - 1;
     while head < members.len() {
         let v = members[head];
         head += 1;
-        for i in offsets[v as usize] as usize..offsets[v as usize + 1] as usize {
-            let u = sources[i];
-            if stamp[u as usize] == g || c.is_blocked(u) {
-                continue;
+        let (lo, hi) = (offsets[v as usize] as usize, offsets[v as usize + 1] as usize);
+        match c.in_row_probability(v) {
+            Some(p) if p >= 1.0 => {
+                for &u in &sources[lo..hi] {
+                    if stamp[u as usize] != g && !c.is_blocked(u) {
+                        stamp[u as usize] = g;
+                        members.push(u);
+                    }
+                }
             }
-            if hit(thr[i], hash(k, c.coin_index(eids[i], u, v))) {
-                stamp[u as usize] = g;
-                members.push(u);
+            Some(p) if p <= 0.0 => {}
+            Some(p) => {
+                let ln_q = (-p).ln_1p();
+                let mut pos = lo as f64 - 1.0;
+                loop {
+                    let u01 = ((hash(k, draw) >> 11) + 1) as f64 * (1.0 / (1u64 << 53) as f64);
+                    draw -= 1;
+                    pos += (u01.ln() / ln_q).floor() + 1.0;
+                    if pos >= hi as f64 {
+                        break;
+                    }
+                    let u = sources[pos as usize];
+                    if stamp[u as usize] != g && !c.is_blocked(u) {
+                        stamp[u as usize] = g;
+                        members.push(u);
+                    }
+                }
+            }
+            None => {
+                for i in lo..hi {
+                    let u = sources[i];
+                    if stamp[u as usize] == g || c.is_blocked(u) {
+                        continue;
+                    }
+                    if hit(thr[i], hash(k, c.coin_index(eids[i], u, v))) {
+                        stamp[u as usize] = g;
+                        members.push(u);
+                    }
+                }
             }
         }
     }
