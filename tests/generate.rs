@@ -460,10 +460,70 @@ fn cli_generate_refuses_bad_parameters() {
         &["generate", "gnp", "--n", "10", "--p", "1.5", "-o", o],
         &["generate", "ws", "--n", "10", "--k", "3", "--beta", "0.1", "-o", o],
         &["generate", "ba", "--n", "10", "--m", "2"],
+        &["generate", "gnp", "--n", "1000000", "--p", "0.5", "-o", o],
+        &["generate", "square", "--side", "70000", "-o", o],
+        &["generate", "sbm", "--sizes", "2,2", "--probs", "0.1,0.2;0.3,0.1", "-o", o],
     ] {
         let out = spreadplan(args);
         assert_eq!(out.status.code(), Some(2), "{args:?}");
         let err = String::from_utf8_lossy(&out.stderr);
         assert!(err.starts_with("error:") && !err.contains("panicked"), "{err}");
+    }
+}
+
+mod no_panics {
+    // Common practice, no source: generators given arbitrary parameters
+    // return a network or a typed error, never panic, and what they return
+    // is a valid simple graph.
+    use super::*;
+    use proptest::prelude::*;
+
+    fn simple(net: &Network) -> bool {
+        net.edges().windows(2).all(|w| w[0] < w[1]) && net.edges().iter().all(|e| e[0] < e[1])
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 256, ..ProptestConfig::default() })]
+
+        #[test]
+        fn random_parameters(n in 0u32..40, k in 0u32..40, p in prop::num::f64::ANY,
+                             q in 0.0f64..=1.0, m in 0u64..900, seed in any::<u64>()) {
+            for r in [gnp(n, p, seed), gnp(n, q, seed), gnm(n, m, seed), random_regular(n, k, seed),
+                      square_lattice(k % 12, n % 2 == 0), triangular_lattice(k % 12, n % 2 == 1),
+                      barabasi_albert(n, k, seed), watts_strogatz(n, k, q, seed),
+                      watts_strogatz(n, k, p, seed)].into_iter().flatten() {
+                prop_assert!(simple(&r));
+            }
+            if let Ok(net) = random_regular(n, k, seed) {
+                prop_assert!((0..n).all(|v| net.degree(v) == k as usize));
+            }
+        }
+
+        #[test]
+        fn random_sequences(degrees in prop::collection::vec(0u32..12, 0..40),
+                            weights in prop::collection::vec(prop::num::f64::ANY, 0..40),
+                            sizes in prop::collection::vec(0u32..15, 0..4),
+                            p in 0.0f64..=1.0, seed in any::<u64>()) {
+            if let Ok(g) = configuration_model(&degrees, seed) {
+                prop_assert!(simple(&g.network));
+            }
+            if let Ok(net) = chung_lu(&weights, seed) {
+                prop_assert!(simple(&net));
+            }
+            let b = sizes.len();
+            let probs = vec![vec![p; b]; b];
+            if let Ok(g) = stochastic_block_model(&sizes, &probs, seed) {
+                prop_assert!(simple(&g.network));
+            }
+            let cfg = TownConfig {
+                people: degrees.len() as u32 * 10,
+                household_sizes: weights.iter().map(|w| w.abs().min(10.0)).collect(),
+                class_contact: p,
+                ..TownConfig::default()
+            };
+            if let Ok(t) = town(&cfg, seed) {
+                prop_assert!(simple(&t.network));
+            }
+        }
     }
 }

@@ -235,3 +235,42 @@ fn identical_at_any_thread_count() {
     };
     assert_eq!(run(1), run(4));
 }
+
+#[test]
+fn threshold_command_json() {
+    // CLI contract (issue 3 item 7): `critical_transmissibility` by method and a
+    // `curve` of points with `transmissibility`. On the 5-cycle the
+    // non-backtracking radius is exactly 1 (each directed edge has one
+    // successor), so message passing gives T_c = 1, and so does the
+    // configuration model (<k> = 2, <k²> = 4: 2/(4 − 2) = 1).
+    let dir = super::common::tempdir("threshold");
+    let f = dir.join("cycle.csv");
+    std::fs::write(&f, "source,target\na,b\nb,c\nc,d\nd,e\ne,a\n").unwrap();
+    let out = super::common::spreadplan(&[
+        "threshold",
+        f.to_str().unwrap(),
+        "--runs",
+        "8",
+        "--points",
+        "5",
+        "--format",
+        "json",
+        "--out",
+        dir.join("out").to_str().unwrap(),
+    ]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["command"], "threshold");
+    let c = &v["critical_transmissibility"];
+    assert_eq!(c["message_passing"]["estimate"], 1.0);
+    assert_eq!(c["configuration_model"], 1.0);
+    assert!(c["newman_ziff"]["mean"].is_number());
+    let curve = v["curve"].as_array().unwrap();
+    assert_eq!(curve.len(), 5);
+    assert_eq!(curve[4]["transmissibility"], 1.0);
+    assert_eq!(curve[4]["giant_fraction"]["mean"], 1.0);
+    assert!(dir.join("out/curves.csv").exists());
+    // Bad input exits 2.
+    let bad = super::common::spreadplan(&["threshold", f.to_str().unwrap(), "--points", "1"]);
+    assert_eq!(bad.status.code(), Some(2));
+}

@@ -164,11 +164,12 @@ struct Generated {
     network: Network,
     nodes: Option<NodeTable>,
     erased: BuildReport,
+    note: String,
 }
 
 impl From<Network> for Generated {
     fn from(network: Network) -> Self {
-        Generated { network, nodes: None, erased: BuildReport::default() }
+        Generated { network, nodes: None, erased: BuildReport::default(), note: String::new() }
     }
 }
 
@@ -194,11 +195,12 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
             .with_context(|| format!("writing {}", path.display()))?;
     }
     eprintln!(
-        "{name}: {} nodes, {} edges, {} self-loops and {} multi-edges erased (seed {seed}) -> {}",
+        "{name}: {} nodes, {} edges, {} self-loops and {} multi-edges erased{} (seed {seed}) -> {}",
         gen.network.node_count(),
         gen.network.edge_count(),
         gen.erased.self_loops_dropped,
         gen.erased.duplicates_merged,
+        gen.note,
         output.display()
     );
     Ok(())
@@ -249,7 +251,7 @@ fn build(model: Model, seed: u64) -> anyhow::Result<Generated> {
                 (None, None) => bail!("configuration needs --degrees-file or --degree-model"),
             };
             let e = g::configuration_model(&degrees, seed)?;
-            Generated { network: e.network, nodes: None, erased: e.report }
+            Generated { network: e.network, nodes: None, erased: e.report, note: String::new() }
         }
         Model::ChungLu { weights_file, degree_model, n } => {
             let w: Vec<f64> = match (weights_file, degree_model) {
@@ -268,7 +270,12 @@ fn build(model: Model, seed: u64) -> anyhow::Result<Generated> {
         Model::Sbm { sizes, probs } => {
             let m = parse_matrix(&probs)?;
             let b = g::stochastic_block_model(&sizes, &m, seed)?;
-            Generated { network: b.network, nodes: Some(b.nodes), erased: BuildReport::default() }
+            Generated {
+                network: b.network,
+                nodes: Some(b.nodes),
+                erased: BuildReport::default(),
+                note: String::new(),
+            }
         }
         Model::Ba { n, m } => g::barabasi_albert(n, m, seed)?.into(),
         Model::Ws { n, k, beta } => g::watts_strogatz(n, k, beta, seed)?.into(),
@@ -287,7 +294,18 @@ fn build(model: Model, seed: u64) -> anyhow::Result<Generated> {
             }
             let t = g::town(&cfg, seed)?;
             // Contacts shared by two settings are one contact, not an erasure.
-            Generated { network: t.network, nodes: Some(t.nodes), erased: BuildReport::default() }
+            let [h, c, w, ch] = t.settings;
+            let note = format!(
+                "; {h} households, {c} classrooms, {w} workplaces, {ch} care homes, \
+                 {} contacts shared by two settings merged",
+                t.report.duplicates_merged
+            );
+            Generated {
+                network: t.network,
+                nodes: Some(t.nodes),
+                erased: BuildReport::default(),
+                note,
+            }
         }
     })
 }

@@ -63,9 +63,9 @@ pub fn core_numbers_present(present: &Present<'_>) -> Vec<u32> {
             }
         }
     }
-    for v in 0..n {
-        if !present.alive[v] {
-            deg[v] = 0;
+    for (d, &a) in deg.iter_mut().zip(&present.alive) {
+        if !a {
+            *d = 0;
         }
     }
     deg

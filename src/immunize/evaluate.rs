@@ -110,6 +110,7 @@ pub fn curve_grid(max: u64, points: usize, extra: &[u64]) -> Vec<u64> {
 }
 
 /// Evaluates one dose sequence in realization `r`: one reverse-add pass.
+#[allow(clippy::too_many_arguments)]
 pub(crate) fn evaluate_sequence(
     net: &Network,
     cfg: &BudgetCurveConfig,

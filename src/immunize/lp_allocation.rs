@@ -37,8 +37,14 @@ pub enum LpAllocError {
     },
     /// The solver said no (typically: floors cannot be met within the
     /// budget or uptake).
-    #[error("lp allocation: {0}")]
-    Lp(#[from] LpError),
+    #[error("lp allocation: {0} (check that the group floors fit within the budget and uptake)")]
+    Lp(LpError),
+}
+
+impl From<LpError> for LpAllocError {
+    fn from(e: LpError) -> Self {
+        LpAllocError::Lp(e)
+    }
 }
 
 /// Classes of people with their sizes, dose costs and uptakes.
@@ -476,6 +482,29 @@ pub fn lp_removal_order(
     out
 }
 
+/// The `lp` rule of the network-mode registry ([`super::removal_order`]),
+/// where no budget, costs or group limits reach the rule: with unit costs,
+/// full uptake and only the budget binding, the LP optimum at *every*
+/// budget is the fractional knapsack by k(k−1), i.e. whole residual-degree
+/// classes from the highest k(k−1) down, the last class partly, its members
+/// drawn uniformly at random. This order (classes by k(k−1) descending,
+/// members shuffled by `rng` per realization; degrees 0 and 1, of weight 0,
+/// last) realizes that optimum for each prefix. With costs, uptake or group
+/// limits use [`network_lp_order`], which solves the LP at the budget.
+pub fn lp_order_present(present: &super::Present<'_>, rng: &mut ChaCha8Rng) -> Vec<u32> {
+    let mut classes: BTreeMap<u64, Vec<u32>> = BTreeMap::new();
+    for v in present.candidates() {
+        let k = u64::from(present.degree[v as usize]);
+        classes.entry(k * k.saturating_sub(1)).or_default().push(v);
+    }
+    let mut out = Vec::with_capacity(present.alive.len());
+    for (_, mut members) in classes.into_iter().rev() {
+        crate::rng::shuffle(rng, &mut members);
+        out.extend_from_slice(&members);
+    }
+    out
+}
+
 /// Network mode in one call: classes from `net` and `nodes`, the LP for
 /// `budget` (cost units) under `limits`, and the removal order of one
 /// realization drawn from `rng`.
@@ -494,6 +523,30 @@ pub fn network_lp_order(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn registry_lp_order_is_knapsack_order() {
+        use crate::network::{Network, WeightMerge};
+        // Star with a pendant path: hub (degree 4) first, then the degree-2 node.
+        let (net, _) = Network::from_edges(
+            6,
+            false,
+            vec![(0, 1), (0, 2), (0, 3), (0, 4), (4, 5)],
+            None,
+            WeightMerge::Max,
+        )
+        .unwrap();
+        let mut rng = crate::rng::stream(1, crate::rng::Stage::Rule, 0);
+        let o = super::super::removal_order(
+            &net,
+            super::super::Rule::Lp,
+            &Default::default(),
+            &[],
+            &mut rng,
+        );
+        assert_eq!(&o[..2], &[0, 4]);
+        assert_eq!(o.len(), 6);
+    }
 
     #[test]
     fn floors_and_unknown_groups() {

@@ -390,10 +390,11 @@ fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: 
 }
 
 /// Counting-sort rows of an undirected network: each edge `(a, b)`, `a <
-/// b`, goes to row `a` as `b` and to row `b` as `a`. Edges sorted by
-/// `(a, b)` make every row ascending (entries below the row come first).
-/// Works in batches: slots are computed first, then written, so the random
-/// accesses of a batch overlap.
+/// b`, goes to row `a` as `b` and to row `b` as `a`. With edges sorted by
+/// `(a, b)`, row `r` is its entries below `r` (from edges `(c, r)`), then
+/// those above (edges `(r, x)`, contiguous in the edge list, written in one
+/// sequential pass). The entries below are a transpose, scattered in
+/// passes over blocks of rows small enough that the writes stay in cache.
 fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
     let mut offsets = vec![0u64; n + 1];
     for e in edges {
@@ -406,29 +407,37 @@ fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32
     let total = offsets[n] as usize;
     let mut cols = vec![0u32; total];
     let mut ids = vec![0u32; total];
+    // Entries above the row: fill each row's tail backwards.
+    let mut ptr = 0usize;
+    let mut row = u32::MAX;
+    for (i, e) in edges.iter().enumerate().rev() {
+        if e[0] != row {
+            row = e[0];
+            ptr = offsets[row as usize + 1] as usize;
+        }
+        ptr -= 1;
+        cols[ptr] = e[1];
+        ids[ptr] = i as u32;
+    }
+    // Entries below the row, by blocks of about 8 MiB of row data.
+    let per_row = 8 * total / n.max(1) + 8;
+    let block = ((8usize << 20) / per_row).max(1024);
     let mut next: Vec<u64> = offsets[..n].to_vec();
-    const BATCH: usize = 512;
-    let mut slots = [0u64; BATCH];
-    for (c, chunk) in edges.chunks(BATCH).enumerate() {
-        let base = (c * BATCH) as u32;
-        // Entries below the row first (see above), then the forward ones.
-        for (k, e) in chunk.iter().enumerate() {
+    let mut lo = 0usize;
+    while lo < n {
+        let hi = (lo + block).min(n);
+        // Only edges with source < hi can point into [lo, hi).
+        let end = edges.partition_point(|e| (e[0] as usize) < hi);
+        for (i, e) in edges[..end].iter().enumerate() {
             let r = e[1] as usize;
-            slots[k] = next[r];
-            next[r] += 1;
+            if r >= lo && r < hi {
+                let s = next[r] as usize;
+                next[r] += 1;
+                cols[s] = e[0];
+                ids[s] = i as u32;
+            }
         }
-        for (k, e) in chunk.iter().enumerate() {
-            let s = slots[k] as usize;
-            cols[s] = e[0];
-            ids[s] = base + k as u32;
-        }
-        for (k, e) in chunk.iter().enumerate() {
-            let r = e[0] as usize;
-            let s = next[r] as usize;
-            next[r] += 1;
-            cols[s] = e[1];
-            ids[s] = base + k as u32;
-        }
+        lo = hi;
     }
     (offsets, cols, ids)
 }

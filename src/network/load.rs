@@ -324,14 +324,10 @@ impl Interner {
         }
         let s = std::str::from_utf8(tok)
             .map_err(|_| format!("node id {} is not valid utf-8", show(tok)))?;
-        let i = match self.nodes.index(s) {
-            Some(i) => i,
-            None => {
-                if self.nodes.len() >= MAX_NODES {
-                    return Err(format!("too many nodes: more than {MAX_NODES}"));
-                }
-                self.nodes.intern(s)
-            }
+        let i = if self.nodes.len() < MAX_NODES {
+            self.nodes.intern(s)
+        } else {
+            self.nodes.index(s).ok_or_else(|| format!("too many nodes: more than {MAX_NODES}"))?
         };
         if let Some(v) = num {
             let v = v as usize;
