@@ -55,7 +55,9 @@ fn main() {
         _ => (1.0, 1.0),
     };
     let mut people = String::from("id,group,cost,uptake\n");
-    for v in 0..t.network.node_count() as u32 {
+    // Only people with a contact appear in the edge list, so only they are
+    // listed (a node table may not name people the network lacks).
+    for v in (0..t.network.node_count() as u32).filter(|&v| t.network.degree(v) > 0) {
         let g = t.nodes.group_of(v).unwrap_or("adult");
         let (c, u) = terms(g);
         people.push_str(&format!("{},{g},{c},{u}\n", t.nodes.id(v)));

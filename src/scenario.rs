@@ -30,6 +30,7 @@ use serde::de::DeserializeOwned;
 use serde::Deserialize;
 use serde_json::Value;
 
+use crate::degree::DegreeDistribution;
 use crate::network::load::{self, EdgeListOptions, LoadError, Loaded};
 use crate::network::WeightMerge;
 use crate::outcome::Study;
@@ -132,9 +133,6 @@ pub struct DistributionInput {
     /// Model spec such as `negbin:mean=6,dispersion=0.8`.
     #[serde(default)]
     pub model: Option<String>,
-    /// Population size the distribution describes.
-    #[serde(default)]
-    pub population: Option<u64>,
 }
 
 /// Where outputs go.
@@ -162,18 +160,22 @@ struct File<P> {
     outputs: Outputs,
 }
 
-#[derive(Debug, Deserialize)]
 struct Head {
     kind: Kind,
+    distribution: bool,
 }
 
-/// The ranking's parameters, typed by kind.
+/// The ranking's parameters, typed by kind and input.
 #[derive(Clone, Debug)]
 pub enum Parameters {
     /// Seeding: [`crate::seed::SeedConfig`].
     Seed(crate::seed::SeedConfig),
-    /// Immunization parameters (kept as TOML until the ranking consumes them).
-    Immunize(toml::Table),
+    /// Immunization on a network: [`crate::immunize::ImmunizeConfig`].
+    Immunize(crate::immunize::ImmunizeConfig),
+    /// Immunization from a degree distribution:
+    /// [`crate::immunize::analytic::AnalyticConfig`] (its `population` is
+    /// the population the distribution describes).
+    ImmunizeDistribution(crate::immunize::analytic::AnalyticConfig),
     /// Threshold-study parameters (kept as TOML until the study consumes them).
     Threshold(toml::Table),
 }
@@ -307,8 +309,11 @@ impl Scenario {
                         }
                     })
                 })?;
+            let distribution = toml::from_str::<toml::Table>(text)
+                .map(|t| t.contains_key("distribution"))
+                .unwrap_or(false);
             match loose.kind {
-                Some(kind) => Head { kind },
+                Some(kind) => Head { kind, distribution },
                 None => {
                     return Err(ScenarioError::Invalid {
                         file: name,
@@ -331,8 +336,19 @@ impl Scenario {
                     Parameters::Seed(f.parameters),
                 )
             }
+            Kind::Immunize if head.distribution => {
+                let f: File<crate::immunize::analytic::AnalyticConfig> = parse(&name, text)?;
+                (
+                    f.name,
+                    f.kind,
+                    f.network,
+                    f.distribution,
+                    f.outputs,
+                    Parameters::ImmunizeDistribution(f.parameters),
+                )
+            }
             Kind::Immunize => {
-                let f: File<toml::Table> = parse(&name, text)?;
+                let f: File<crate::immunize::ImmunizeConfig> = parse(&name, text)?;
                 (
                     f.name,
                     f.kind,
@@ -465,8 +481,22 @@ impl Scenario {
                 add_degree_distribution(&mut s, &loaded);
                 s
             }
-            Parameters::Immunize(_) => {
-                return Err(self.unsupported("kind = \"immunize\" is not available in this build"))
+            Parameters::Immunize(cfg) => {
+                let loaded = self.load_network(WeightMerge::default())?;
+                let mut s = crate::immunize::rank_network(&loaded, cfg, progress)
+                    .map_err(|e| self.ranking_err(e))?;
+                add_degree_distribution(&mut s, &loaded);
+                s
+            }
+            Parameters::ImmunizeDistribution(cfg) => {
+                let (dist, input) = self.load_distribution()?;
+                let mut s = crate::immunize::analytic::rank_distribution(&dist, cfg)
+                    .map_err(|e| self.ranking_err(e))?;
+                for (k, v) in input {
+                    s.input.entry(k).or_insert(v);
+                }
+                add_distribution_points(&mut s, &dist);
+                s
             }
             Parameters::Threshold(_) => {
                 return Err(self.unsupported("kind = \"threshold\" is not available in this build"))
@@ -481,6 +511,37 @@ impl Scenario {
             study.parameters.insert("scenario".into(), Value::from(n.clone()));
         }
         Ok(study)
+    }
+
+    /// Reads the degree-distribution input; returns it with what to record
+    /// in the study's inputs (path and content hash, or the model spec).
+    pub fn load_distribution(
+        &self,
+    ) -> Result<(DegreeDistribution, Vec<(String, Value)>), ScenarioError> {
+        let Some(d) = &self.distribution else {
+            return Err(self.unsupported("this kind needs a [distribution] input"));
+        };
+        let bad = |e: crate::degree::DegreeError| self.ranking_err(e);
+        match (&d.table, &d.model) {
+            (Some(t), _) => {
+                let path = self.resolve(t);
+                let bytes = std::fs::read(&path)
+                    .map_err(|source| LoadError::Io { path: path.clone(), source })?;
+                let dist = DegreeDistribution::from_csv_path(&path).map_err(bad)?;
+                Ok((
+                    dist,
+                    vec![
+                        ("degrees".into(), Value::from(path.display().to_string())),
+                        ("degrees_hash".into(), Value::from(fnv_hex(&bytes))),
+                    ],
+                ))
+            }
+            (None, Some(m)) => {
+                let dist = DegreeDistribution::from_spec(m).map_err(bad)?;
+                Ok((dist, vec![("degree_model".into(), Value::from(m.clone()))]))
+            }
+            (None, None) => Err(self.unsupported("[distribution] needs table or model")),
+        }
     }
 
     fn read_exclude(&self, path: &Path, loaded: &Loaded) -> Result<Vec<u32>, ScenarioError> {
@@ -515,6 +576,27 @@ fn fnv_hex(bytes: &[u8]) -> String {
     let mut h = load::Fnv::default();
     h.write(bytes);
     format!("{:016x}", h.0)
+}
+
+/// Adds the distribution's `(degree, probability)` points to
+/// `study.extra["degree_distribution"]` (as parallel `degree` and
+/// `probability` arrays) so the report can draw it.
+pub fn add_distribution_points(study: &mut Study, dist: &DegreeDistribution) {
+    let degree = Value::from(dist.support().to_vec());
+    let probability = Value::from(dist.probabilities().to_vec());
+    match study.extra.get_mut("degree_distribution") {
+        Some(Value::Object(o)) => {
+            o.entry("degree").or_insert(degree);
+            o.entry("probability").or_insert(probability);
+        }
+        Some(_) => {}
+        None => {
+            let mut o = serde_json::Map::new();
+            o.insert("degree".into(), degree);
+            o.insert("probability".into(), probability);
+            study.extra.insert("degree_distribution".into(), Value::Object(o));
+        }
+    }
 }
 
 /// Adds the network's degree counts to `study.extra["degree_distribution"]`

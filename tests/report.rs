@@ -466,3 +466,55 @@ fn decode_png(bytes: &[u8]) -> (usize, usize, usize, Vec<u8>) {
     }
     (w, h, px, out)
 }
+
+/// Path of a bundled demo scenario.
+fn demo(name: &str) -> std::path::PathBuf {
+    std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("demo-data").join(name)
+}
+
+#[test]
+fn run_scenario_twice_gives_byte_identical_csv_and_json() {
+    // Issue 7: "running a scenario twice gives byte-identical CSV and JSON".
+    let a = tempdir("run-twice-a");
+    let b = tempdir("run-twice-b");
+    for (dir, threads) in [(&a, "1"), (&b, "2")] {
+        let out = crate::common::spreadplan(&[
+            "run",
+            demo("harrowgate.toml").to_str().unwrap(),
+            "--out",
+            dir.to_str().unwrap(),
+            "--quiet",
+            "--threads",
+            threads,
+        ]);
+        assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    }
+    for f in ["ranking.csv", "curves.csv", "allocation.csv", "summary.json", "report.html"] {
+        let x = std::fs::read(a.join(f)).unwrap();
+        assert!(!x.is_empty(), "{f} empty");
+        assert_eq!(x, std::fs::read(b.join(f)).unwrap(), "{f} differs");
+    }
+    let json: Value =
+        serde_json::from_str(&std::fs::read_to_string(a.join("summary.json")).unwrap()).unwrap();
+    assert_eq!(json["version"], spreadplan::VERSION);
+    assert!(json["input"]["scenario_hash"].is_string());
+    assert!(json["input"]["degrees_hash"].is_string());
+    assert_eq!(json["parameters"]["transmissibility"], 0.25);
+}
+
+#[test]
+fn bad_scenario_names_key_and_line_and_exits_2() {
+    let dir = tempdir("run-bad");
+    let f = dir.join("bad.toml");
+    std::fs::write(
+        &f,
+        "kind = \"immunize\"\n[distribution]\ntable = \"t.csv\"\n[parameters]\npopulation = 10\nbudget = \"5%\"\ntransmissibility = \"high\"\n",
+    )
+    .unwrap();
+    let out = crate::common::spreadplan(&["run", f.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad.toml:7: parameters.transmissibility:"), "{err}");
+    // Nothing was written.
+    assert!(!dir.join("out").exists());
+}
