@@ -9,6 +9,7 @@ mod generate;
 mod immunize;
 mod immunize_degrees;
 mod inspect;
+mod progress;
 mod run;
 mod seed;
 mod threshold;

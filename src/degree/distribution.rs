@@ -103,10 +103,11 @@ pub struct DegreeDistribution {
     dropped_tail: f64,
 }
 
-/// Tail mass at which infinite supports (Poisson, geometric, negative
+/// Tail at which infinite supports (Poisson, geometric, negative
 /// binomial, power law with only an exponential cutoff) are truncated: the
-/// support stops at the first k beyond the mode whose remaining mass is
-/// below this, and the kept probabilities are renormalized.
+/// support stops at the first k beyond the mode where the remaining tail of
+/// k² p_k (so also the tail mass) is below this times the kept mass, and
+/// the kept probabilities are renormalized.
 pub const TAIL_MASS: f64 = 1e-12;
 
 /// Largest support a distribution may have (distinct degrees), so that no

@@ -5,6 +5,8 @@
 //! class-dependent occupation and the percolation fixed point.
 
 pub mod distribution;
+pub mod pgf;
 pub mod spec;
 
 pub use distribution::{DegreeClass, DegreeDistribution, DegreeError, MAX_SUPPORT, TAIL_MASS};
+pub use pgf::{FixedPoint, Occupation};

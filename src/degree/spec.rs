@@ -8,8 +8,9 @@
 //! | `negbin:mean=m,dispersion=r` | Γ(k + r)/(k! Γ(r)) (r/(r+m))^r (m/(r+m))^k — r is the dispersion ("size") parameter of epidemiology, variance m + m²/r; r → ∞ is Poisson | k ≥ 0, truncated |
 //! | `regular:k=d` | all mass on d | {d} |
 //!
-//! Truncation: infinite supports stop at the first k past the mode whose
-//! remaining tail mass is below [`TAIL_MASS`] (1e-12); the kept
+//! Truncation: infinite supports stop at the first k past the mode where
+//! a bound on the remaining tail of k² p_k (hence also of p_k and k p_k)
+//! is below [`TAIL_MASS`] (1e-12) times the kept mass; the kept
 //! probabilities are renormalized, and the dropped mass is recorded in
 //! [`DegreeDistribution::dropped_tail`].
 
@@ -53,12 +54,14 @@ pub fn parse(spec: &str) -> Result<DegreeDistribution, DegreeError> {
         "powerlaw" => &["exponent", "min", "max", "cutoff"],
         "negbin" => &["mean", "dispersion"],
         "regular" => &["k"],
-        _ => return Err(err(
-            spec,
-            format!(
+        _ => {
+            return Err(err(
+                spec,
+                format!(
                 "unknown family {family:?}; known: poisson, geometric, powerlaw, negbin, regular"
             ),
-        )),
+            ))
+        }
     };
     if let Some((k, _)) = kv.iter().find(|(k, _)| !allowed.contains(&k.as_str())) {
         return Err(err(
@@ -246,9 +249,15 @@ fn truncated_from(
             // Log-concave tails: the current ratio bounds all later ones.
             // Power law × exponential: the ratios rise towards e^{-1/κ}.
             let ratio = if min_decay > 0.0 { (-min_decay).exp() } else { (next - l).exp() };
-            if ratio < 1.0 {
+            // Bound the tail of k² p_k too (its term ratio carries the
+            // factor ((k+2)/(k+1))², decreasing in k), so ⟨k⟩ and ⟨k²⟩ lose
+            // less than TAIL_MASS as well.
+            let k1 = f64::from(k) + 1.0;
+            let ratio2 = ratio * ((k1 + 1.0) / k1).powi(2);
+            if ratio2 < 1.0 {
                 let tail = next.exp() / (1.0 - ratio);
-                if tail < TAIL_MASS * total {
+                let tail2 = next.exp() * k1 * k1 / (1.0 - ratio2);
+                if tail2 < TAIL_MASS * total {
                     return Ok((pairs, tail / (total + tail)));
                 }
             }

@@ -8,11 +8,13 @@
 //! [`rank_network`] builds the ranked [`Study`](crate::outcome::Study).
 
 mod acquaintance;
+pub mod analytic;
 mod collective_influence;
 mod corehd;
 mod coreness;
 mod degree;
 mod evaluate;
+pub mod lp_allocation;
 mod random;
 mod rank;
 mod rule;

@@ -29,6 +29,8 @@ pub enum Rule {
     CoreHd,
     /// Morone & Makse (2015) Collective Influence with reinsertion.
     CollectiveInfluence,
+    /// The class-level LP (degree classes, fractional knapsack by k(k−1)).
+    Lp,
 }
 
 /// Names of the network-mode rules, in the default display order.
@@ -40,6 +42,7 @@ pub const NETWORK_RULES: &[&str] = &[
     "coreness",
     "corehd",
     "collective-influence",
+    "lp",
 ];
 
 /// Parameters some rules read.
@@ -60,7 +63,7 @@ impl Default for RuleParams {
 
 impl Rule {
     /// All network-mode rules, in the order of [`NETWORK_RULES`].
-    pub const ALL: [Rule; 7] = [
+    pub const ALL: [Rule; 8] = [
         Rule::Random,
         Rule::Degree,
         Rule::DegreeAdaptive,
@@ -68,6 +71,7 @@ impl Rule {
         Rule::Coreness,
         Rule::CoreHd,
         Rule::CollectiveInfluence,
+        Rule::Lp,
     ];
 
     /// The rule of a command-line name.
@@ -91,7 +95,7 @@ impl Rule {
         match self {
             Rule::Random => "none",
             Rule::Acquaintance => "a named contact",
-            Rule::Degree => "contact counts",
+            Rule::Degree | Rule::Lp => "contact counts",
             Rule::DegreeAdaptive | Rule::Coreness | Rule::CoreHd | Rule::CollectiveInfluence => {
                 "whole network"
             }
@@ -100,7 +104,7 @@ impl Rule {
 
     /// Whether the rule draws a fresh order per realization.
     pub fn is_randomized(self) -> bool {
-        matches!(self, Rule::Random | Rule::Acquaintance)
+        matches!(self, Rule::Random | Rule::Acquaintance | Rule::Lp)
     }
 }
 
@@ -137,6 +141,7 @@ pub fn removal_order(
         Rule::CollectiveInfluence => {
             super::collective_influence_order(&present, params.ci_radius, params.dismantle_target)
         }
+        Rule::Lp => super::lp_allocation::lp_order_present(&present, rng),
     }
 }
 

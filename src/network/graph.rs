@@ -208,7 +208,7 @@ impl Network {
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
             (net.in_offsets, net.in_sources, net.in_edge_ids) = (io, is, iid);
         } else {
-            let (o, t, id) = rows(nn, &net.edges, |e| [(e[0], e[1]), (e[1], e[0])].into_iter());
+            let (o, t, id) = rows_undirected(nn, &net.edges);
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
         }
         net
@@ -389,6 +389,59 @@ fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: 
     *v = src;
 }
 
+/// Counting-sort rows of an undirected network: each edge `(a, b)`, `a <
+/// b`, goes to row `a` as `b` and to row `b` as `a`. With edges sorted by
+/// `(a, b)`, row `r` is its entries below `r` (from edges `(c, r)`), then
+/// those above (edges `(r, x)`, contiguous in the edge list, written in one
+/// sequential pass). The entries below are a transpose, scattered in
+/// passes over blocks of rows small enough that the writes stay in cache.
+fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    let mut offsets = vec![0u64; n + 1];
+    for e in edges {
+        offsets[e[0] as usize + 1] += 1;
+        offsets[e[1] as usize + 1] += 1;
+    }
+    for i in 0..n {
+        offsets[i + 1] += offsets[i];
+    }
+    let total = offsets[n] as usize;
+    let mut cols = vec![0u32; total];
+    let mut ids = vec![0u32; total];
+    // Entries above the row: fill each row's tail backwards.
+    let mut ptr = 0usize;
+    let mut row = u32::MAX;
+    for (i, e) in edges.iter().enumerate().rev() {
+        if e[0] != row {
+            row = e[0];
+            ptr = offsets[row as usize + 1] as usize;
+        }
+        ptr -= 1;
+        cols[ptr] = e[1];
+        ids[ptr] = i as u32;
+    }
+    // Entries below the row, by blocks of about 8 MiB of row data.
+    let per_row = 8 * total / n.max(1) + 8;
+    let block = ((8usize << 20) / per_row).max(1024);
+    let mut next: Vec<u64> = offsets[..n].to_vec();
+    let mut lo = 0usize;
+    while lo < n {
+        let hi = (lo + block).min(n);
+        // Only edges with source < hi can point into [lo, hi).
+        let end = edges.partition_point(|e| (e[0] as usize) < hi);
+        for (i, e) in edges[..end].iter().enumerate() {
+            let r = e[1] as usize;
+            if r >= lo && r < hi {
+                let s = next[r] as usize;
+                next[r] += 1;
+                cols[s] = e[0];
+                ids[s] = i as u32;
+            }
+        }
+        lo = hi;
+    }
+    (offsets, cols, ids)
+}
+
 /// Counting-sort rows: `entries(e)` yields `(row, column)` pairs of edge `e`.
 fn rows<I: Iterator<Item = (u32, u32)>>(
     n: usize,
@@ -493,6 +546,13 @@ mod tests {
         assert_eq!(rep.duplicates_merged, 3000);
         assert_eq!(net.edge_count(), 3000);
         assert!(net.edges().windows(2).all(|w| w[0] < w[1]));
+        // Rows ascending, and each entry's edge id names the same pair.
+        for v in 0..n {
+            assert!(net.neighbors(v).windows(2).all(|w| w[0] < w[1]), "row {v}");
+            for (&u, &e) in net.neighbors(v).iter().zip(net.neighbor_edges(v)) {
+                assert_eq!(net.edges()[e as usize], [u.min(v), u.max(v)]);
+            }
+        }
     }
 
     #[test]

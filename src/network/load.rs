@@ -294,9 +294,16 @@ fn show(t: &[u8]) -> String {
 struct Interner {
     nodes: NodeTable,
     dense: Vec<u32>,
+    /// Extra room the cache may take (the expected number of rows).
+    hint: usize,
 }
 
 impl Interner {
+    #[inline]
+    fn cached(&self, v: u32) -> Option<u32> {
+        self.dense.get(v as usize).copied().filter(|&i| i != NONE)
+    }
+
     #[inline]
     fn get(&mut self, tok: &[u8]) -> Result<u32, String> {
         let num = canonical_u32(tok);
@@ -317,20 +324,17 @@ impl Interner {
         }
         let s = std::str::from_utf8(tok)
             .map_err(|_| format!("node id {} is not valid utf-8", show(tok)))?;
-        let i = match self.nodes.index(s) {
-            Some(i) => i,
-            None => {
-                if self.nodes.len() >= MAX_NODES {
-                    return Err(format!("too many nodes: more than {MAX_NODES}"));
-                }
-                self.nodes.intern(s)
-            }
+        let i = if self.nodes.len() < MAX_NODES {
+            self.nodes.intern(s)
+        } else {
+            self.nodes.index(s).ok_or_else(|| format!("too many nodes: more than {MAX_NODES}"))?
         };
         if let Some(v) = num {
             let v = v as usize;
-            // The cache may hold up to 4 slots per node known (plus a
-            // floor), so sparse huge ids cannot blow memory up.
-            let limit = (1 << 16) + 4 * self.nodes.len();
+            // The cache may hold up to 4 slots per node known or one per
+            // expected row (plus a floor), so sparse huge ids cannot blow
+            // memory up.
+            let limit = ((1 << 16) + 4 * self.nodes.len()).max(self.hint);
             if v >= self.dense.len() && v < limit {
                 let new_len = (v + 1).max(2 * self.dense.len()).min(limit);
                 self.dense.resize(new_len, NONE);
@@ -387,6 +391,10 @@ enum Event<'a> {
     Line(u64, &'a [u8]),
     /// A chunk was parsed; bytes consumed so far.
     Chunk(u64),
+    /// Complete lines the callback may parse on a fast path: it sets
+    /// `used` to the bytes of the whole lines it took and `lines` to their
+    /// count (both 0 to decline).
+    Fast { block: &'a [u8], used: &'a mut usize, lines: &'a mut u64 },
 }
 
 /// Streams a file's lines (chunked, hashed, `\r` and BOM stripped) to `f`
@@ -429,7 +437,14 @@ fn for_each_line(
         end += got;
         let eof = got == 0;
         let mut pos = start;
-        while let Some(i) = buf[pos..end].iter().position(|&b| b == b'\n') {
+        loop {
+            if !first {
+                let (mut used, mut lines) = (0usize, 0u64);
+                f(Event::Fast { block: &buf[pos..end], used: &mut used, lines: &mut lines })?;
+                pos += used;
+                line_no += lines;
+            }
+            let Some(i) = buf[pos..end].iter().position(|&b| b == b'\n') else { break };
             line_no += 1;
             let mut line = &buf[pos..pos + i];
             if first {
@@ -491,6 +506,13 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
     let (lines, hash) = for_each_line(path, |ev| {
         let (line_no, line) = match ev {
             Event::Line(no, l) => (no, l),
+            Event::Fast { block, used, lines } => {
+                if let (Some(d), None) = (delim, weight_idx) {
+                    (*used, *lines) = fast_edges(block, d, &mut ids, &mut edges);
+                    rows += *lines;
+                }
+                return Ok(());
+            }
             Event::Chunk(consumed) => {
                 // After the first chunk, reserve for the whole file from the
                 // bytes per row seen so far (keeps Vec growth slack small).
@@ -498,6 +520,7 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
                     reserved = true;
                     if let Some(len) = file_len {
                         let est = (len as f64 / consumed as f64 * rows as f64 * 1.02) as usize;
+                        ids.hint = est.min(1 << 28);
                         edges.reserve(est.saturating_sub(edges.len()));
                         if weight_idx.is_some() {
                             weights.reserve(est.saturating_sub(weights.len()));
@@ -581,6 +604,123 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
         header,
     };
     Ok(Loaded { network, nodes, report })
+}
+
+/// A canonical decimal id starting at `block[i]`: `(value, end)`.
+#[inline]
+fn fast_id(block: &[u8], i: usize) -> Option<(u32, usize)> {
+    let first = block.get(i)?.wrapping_sub(b'0');
+    if first > 9 {
+        return None;
+    }
+    let mut v = first as u32;
+    let mut j = i + 1;
+    if first != 0 {
+        while let Some(&b) = block.get(j) {
+            let d = b.wrapping_sub(b'0');
+            if d > 9 {
+                break;
+            }
+            v = v * 10 + d as u32;
+            j += 1;
+            if j - i > 9 {
+                return None;
+            }
+        }
+    } else if block.get(j).is_some_and(|b| b.is_ascii_digit()) {
+        return None;
+    }
+    Some((v, j))
+}
+
+/// The fast path for plain `id<sep>id` lines with canonical decimal ids and
+/// no weight: parses whole lines from the start of `block` until one does
+/// not fit (left to the general parser, which also reports errors).
+/// Returns the bytes and lines taken.
+fn fast_edges(
+    block: &[u8],
+    delim: Delim,
+    ids: &mut Interner,
+    edges: &mut Vec<(u32, u32)>,
+) -> (usize, u64) {
+    let ws = delim == Delim::Whitespace;
+    let sep = match delim {
+        Delim::Byte(b) => b,
+        Delim::Whitespace => b' ',
+    };
+    let is_sep = |b: u8| b == sep || (ws && b == b'\t');
+    let skip_blanks = |mut i: usize| {
+        if ws {
+            while block.get(i).is_some_and(|&b| is_blank(b)) {
+                i += 1;
+            }
+        }
+        i
+    };
+    // One line from `i`: both ids, where the second starts, the next line.
+    let line = |i: usize| -> Option<(u32, u32, usize, usize)> {
+        let i = skip_blanks(i);
+        let (a, ea) = fast_id(block, i)?;
+        if !is_sep(*block.get(ea)?) {
+            return None;
+        }
+        let sb = skip_blanks(ea + 1);
+        let (b, eb) = fast_id(block, sb)?;
+        let mut j = skip_blanks(eb);
+        if block.get(j) == Some(&b'\r') {
+            j += 1;
+        }
+        if block.get(j) != Some(&b'\n') {
+            return None;
+        }
+        Some((a, b, sb, j + 1))
+    };
+    // Parse a batch of lines first, then look the ids up: the lookups are
+    // independent, so their cache misses overlap.
+    const BATCH: usize = 256;
+    let mut parsed = [(0u32, 0u32, 0usize, 0usize, 0usize); BATCH];
+    let mut i = 0usize;
+    let mut n = 0u64;
+    loop {
+        let mut k = 0;
+        let mut j = i;
+        while k < BATCH {
+            let Some((a, b, sb, next)) = line(j) else { break };
+            parsed[k] = (a, b, j, sb, next);
+            k += 1;
+            j = next;
+        }
+        for &(a, b, start, sb, next) in &parsed[..k] {
+            let (u, v) = match (ids.cached(a), ids.cached(b)) {
+                (Some(u), Some(v)) => (u, v),
+                (cu, cv) => {
+                    let tok = |at: usize| {
+                        let at = skip_blanks(at);
+                        let end = fast_id(block, at).map_or(at, |(_, e)| e);
+                        &block[at..end]
+                    };
+                    let u = match cu.map_or_else(|| ids.slow(tok(start), Some(a)), Ok) {
+                        Ok(u) => u,
+                        Err(_) => return (i, n),
+                    };
+                    let v = match cv.or_else(|| ids.cached(b)) {
+                        Some(v) => v,
+                        None => match ids.slow(tok(sb), Some(b)) {
+                            Ok(v) => v,
+                            Err(_) => return (i, n),
+                        },
+                    };
+                    (u, v)
+                }
+            };
+            edges.push((u, v));
+            n += 1;
+            i = next;
+        }
+        if k < BATCH {
+            return (i, n);
+        }
+    }
 }
 
 /// Resolves `--weight-column`: a header name, else a 1-based number ≥ 3.

@@ -7,13 +7,19 @@
 //! whatever the file layout.
 
 mod budget_curve;
+mod directed;
 mod nonbacktracking;
 mod realization;
+mod sweep;
 mod union_find;
 
 pub use budget_curve::{
     budget_curve, budget_curve_into, budget_curve_sums, budget_curves, check_probability,
     BudgetCurve, BudgetCurveConfig, CurveMetric, CurveSums, RuleOrder, Scratch,
+};
+pub use directed::{
+    directed_configuration_threshold, directed_curve, directed_realization, DirectedComponents,
+    DirectedConfig, DirectedPoint,
 };
 pub use nonbacktracking::{
     critical_transmissibility, nonbacktracking_radius, nonbacktracking_radius_with,
@@ -23,4 +29,5 @@ pub use realization::{
     bond_realization, dose_takes, large_outbreak_min, EdgeThresholds, PercolationError,
     Transmissibility,
 };
+pub use sweep::{binomial_weights, newman_ziff, Sweep, SweepConfig, SweepPoint};
 pub use union_find::UnionFind;

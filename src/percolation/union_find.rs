@@ -164,6 +164,19 @@ impl UnionFind {
         true
     }
 
+    /// Like [`UnionFind::union`], returning the two sizes joined (`None`
+    /// when `a` and `b` were already together).
+    #[inline]
+    pub fn union_sizes(&mut self, a: u32, b: u32) -> Option<(u32, u32)> {
+        let (ra, rb) = (self.find(a), self.find(b));
+        if ra == rb {
+            return None;
+        }
+        let sizes = (self.size[ra as usize], self.size[rb as usize]);
+        self.union(ra, rb);
+        Some(sizes)
+    }
+
     /// Size of `v`'s component.
     #[inline]
     pub fn component_size(&mut self, v: u32) -> u32 {

@@ -61,7 +61,7 @@ const STYLE: &str = "\
 :root{--ink:#222;--muted:#5a5a5a;--rule:#d9d9d9;--band:#f4f6f8;--accent:#0072B2;--warn:#D55E00}
 *{box-sizing:border-box}
 body{margin:0;color:var(--ink);background:#fff;font:15px/1.5 system-ui,-apple-system,'Segoe UI',Roboto,Helvetica,Arial,sans-serif}
-main{max-width:1080px;margin:0 auto;padding:24px 28px 48px}
+main{max-width:1180px;margin:0 auto;padding:24px 28px 48px}
 header{border-bottom:4px solid var(--accent);padding-bottom:10px;margin-bottom:18px}
 h1{font-size:26px;margin:0 0 4px}
 h2{font-size:19px;margin:30px 0 10px;padding-bottom:4px;border-bottom:1px solid var(--rule)}
@@ -70,7 +70,7 @@ h3{font-size:16px;margin:18px 0 6px}
 .question{font-size:17px;background:var(--band);padding:12px 16px;border-left:4px solid var(--accent)}
 .caution{border:2px solid var(--warn);background:#fff7f1;padding:10px 16px;margin:16px 0}
 .caution h2{border:0;margin:4px 0;font-size:16px;color:var(--warn)}
-table{border-collapse:collapse;margin:8px 0 14px;font-variant-numeric:tabular-nums}
+table{border-collapse:collapse;margin:8px 0 14px;font-size:14px;font-variant-numeric:tabular-nums}
 th,td{padding:4px 8px;border-bottom:1px solid var(--rule);text-align:left;vertical-align:top}
 th{background:var(--band);font-weight:600}
 td.num{text-align:right;white-space:nowrap}

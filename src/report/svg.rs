@@ -27,7 +27,7 @@ pub const PALETTE: [(u8, u8, u8); 7] = [
 ];
 
 /// Chart width in pixels.
-pub const WIDTH: u32 = 760;
+pub const WIDTH: u32 = 900;
 /// Chart height in pixels.
 pub const HEIGHT: u32 = 420;
 
@@ -195,10 +195,87 @@ pub fn line_chart(c: &LineChart) -> Result<String, String> {
     {
         let root = SVGBackend::with_string(&mut buf, (WIDTH, HEIGHT)).into_drawing_area();
         root.fill(&WHITE).map_err(err)?;
-        draw_lines(&root, c)?;
+        let (plot, side) = root.split_horizontally(WIDTH - LEGEND_WIDTH);
+        draw_lines(&plot, c)?;
+        draw_legend(&side, &legend_entries(c))?;
         root.present().map_err(err)?;
     }
     Ok(buf)
+}
+
+/// Width of the legend column right of a line chart, in pixels.
+const LEGEND_WIDTH: u32 = 210;
+
+/// How a legend entry's sample line is drawn.
+#[derive(Clone, Copy, PartialEq)]
+enum Stroke {
+    Solid,
+    Dashed,
+    Dotted,
+    Dot,
+}
+
+fn legend_entries(c: &LineChart) -> Vec<(String, RGBColor, Stroke)> {
+    let mut out: Vec<(String, RGBColor, Stroke)> = Vec::new();
+    for s in &c.series {
+        let st = if c.points_only {
+            Stroke::Dot
+        } else if s.dashed {
+            Stroke::Dashed
+        } else {
+            Stroke::Solid
+        };
+        out.push((s.label.clone(), colour(s.colour), st));
+    }
+    for h in &c.hlines {
+        out.push((h.label.clone(), h.colour.map_or(INK, colour), Stroke::Dashed));
+    }
+    for v in &c.vlines {
+        out.push((v.label.clone(), v.colour.map_or(INK, colour), Stroke::Dotted));
+    }
+    out
+}
+
+fn draw_legend(
+    area: &DrawingArea<SVGBackend<'_>, Shift>,
+    entries: &[(String, RGBColor, Stroke)],
+) -> Res<()> {
+    let mut y = 52;
+    for (label, col, st) in entries.iter().take(16) {
+        let x = 6;
+        match st {
+            Stroke::Solid => area
+                .draw(&PathElement::new(vec![(x, y), (x + 24, y)], col.stroke_width(3)))
+                .map_err(err)?,
+            Stroke::Dashed => {
+                for i in 0..3 {
+                    let a = x + i * 9;
+                    area.draw(&PathElement::new(vec![(a, y), (a + 5, y)], col.stroke_width(2)))
+                        .map_err(err)?;
+                }
+            }
+            Stroke::Dotted => {
+                for i in 0..5 {
+                    let a = x + i * 5;
+                    area.draw(&PathElement::new(vec![(a, y), (a + 2, y)], col.stroke_width(2)))
+                        .map_err(err)?;
+                }
+            }
+            Stroke::Dot => area.draw(&Circle::new((x + 12, y), 4, col.filled())).map_err(err)?,
+        }
+        let mut text: String = label.chars().take(28).collect();
+        if label.chars().count() > 28 {
+            text.push('…');
+        }
+        area.draw(&Text::new(
+            text,
+            (x + 32, y),
+            text_style(12).pos(Pos::new(HPos::Left, VPos::Center)),
+        ))
+        .map_err(err)?;
+        y += 20;
+    }
+    Ok(())
 }
 
 fn ranges(c: &LineChart) -> ((f64, f64), (f64, f64)) {
@@ -363,16 +440,6 @@ where
             .label(v.label.as_str())
             .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 3, y)], col.stroke_width(2)));
     }
-    if !c.series.is_empty() || !c.hlines.is_empty() || !c.vlines.is_empty() {
-        chart
-            .configure_series_labels()
-            .position(SeriesLabelPosition::UpperRight)
-            .background_style(WHITE.mix(0.85))
-            .border_style(GRID)
-            .label_font(text_style(12))
-            .draw()
-            .map_err(err)?;
-    }
     Ok(())
 }
 
@@ -509,7 +576,7 @@ pub fn bar_chart(c: &BarChart) -> Result<String, String> {
 pub fn json_number(v: &Value) -> Option<f64> {
     match v {
         Value::Number(n) => n.as_f64(),
-        Value::Object(o) => o.get("mean").and_then(Value::as_f64),
+        Value::Object(o) => o.get("mean").or_else(|| o.get("value")).and_then(Value::as_f64),
         _ => None,
     }
 }
@@ -738,16 +805,16 @@ pub fn study_charts(study: &Study) -> Vec<Chart> {
             if !ub.is_empty() {
                 chart.series.extend(ub);
                 caption.push_str(" Dashed lines are upper bounds on the best reach any seed set of that size could achieve.");
-            } else if let Some((u, rule)) = study
+            } else if let Some(u) = study
                 .rules
                 .iter()
-                .filter_map(|r| Some((rule_value(r, "upper_bound")?.value()?, r.rule.clone())))
-                .max_by(|a, b| a.0.total_cmp(&b.0))
+                .filter_map(|r| rule_value(r, "upper_bound")?.value())
+                .max_by(|a, b| a.total_cmp(b))
             {
                 let k = study.rules.iter().map(|r| r.doses).fold(0.0, f64::max);
                 chart.hlines.push(RefLine {
                     at: u,
-                    label: format!("upper bound at K = {} ({rule})", tick(k)),
+                    label: format!("upper bound at K = {}", tick(k)),
                     colour: None,
                 });
                 caption.push_str(" The dashed line is an upper bound on the best reach any K seeds could achieve.");

@@ -9,9 +9,9 @@
 //! ```
 //!
 //! solved with `lp::solve` (microlp, a dense simplex). To keep it
-//! tractable it is solved on the first `max_sets` sets of the IMM
-//! collection (a uniform subsample, since sets are i.i.d.), over the
-//! people who appear in them. Pipage rounding then moves pairs of
+//! tractable it is solved on its own sample of `max_sets` RR sets (drawn
+//! exactly like IMM's, from an independent key range), over the people who
+//! appear in them. Pipage rounding then moves pairs of
 //! fractional `x_i, x_l` along `e_i − e_l` to whichever end raises
 //! `F(x) = Σ_j w_j (1 − Π_{i ∈ R_j} (1 − x_i))` (convex along that line),
 //! until `x` is integral; since `F ≥ (1 − (1 − 1/K)^K) · LP` at the LP
@@ -26,6 +26,10 @@ use std::collections::BTreeMap;
 use crate::lp::{solve, Cmp, Constraint, LinearProgram, Sense};
 use crate::seed::rr_sets::{greedy_cover, RrSets};
 use crate::seed::{Cascade, SeedError};
+
+/// Key offset of the LP's own RR sample (independent of IMM's sets and
+/// the bound's).
+pub const LP_BASE: u64 = 1 << 52;
 
 /// The `lp` rule's output.
 #[derive(Clone, Debug, PartialEq)]
@@ -44,18 +48,22 @@ pub struct LpCover {
     pub candidates: usize,
 }
 
-/// Solves and rounds the coverage LP (see the module doc).
+/// Solves and rounds the coverage LP (see the module doc); `sets` (IMM's
+/// collection) orders the seeds and fills any budget left after rounding.
 pub fn lp_cover(
     c: &Cascade<'_>,
     sets: &RrSets,
     k: usize,
     max_sets: usize,
+    seed: u64,
 ) -> Result<LpCover, SeedError> {
     let n = c.network().node_count();
-    let m = sets.len().min(max_sets);
+    let mut sample = RrSets::new_stored(LP_BASE);
+    sample.extend_to(c, max_sets as u64, seed);
+    let m = sample.stored_len();
     let mut merged: BTreeMap<Vec<u32>, u32> = BTreeMap::new();
     for j in 0..m {
-        let mut s = sets.set(j).to_vec();
+        let mut s = sample.set(j).to_vec();
         s.sort_unstable();
         *merged.entry(s).or_insert(0) += 1;
     }

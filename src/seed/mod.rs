@@ -31,7 +31,7 @@ pub use degree::degree_seeds;
 pub use degree_discount::{degree_discount_seeds, discount_probability};
 pub use evaluate::{expected_reach, reach_samples, ReachSamples};
 pub use imm::{imm, imm_lambdas, ln_binomial, Imm};
-pub use lp_cover::{lp_cover, LpCover};
+pub use lp_cover::{lp_cover, LpCover, LP_BASE};
 pub use random::random_seeds;
 pub use rank::{rank_seeds, SeedConfig, SEED_RULES};
 pub use rr_sets::{greedy_cover, greedy_cover_tracked, Coverage, RrSets};

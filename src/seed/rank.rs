@@ -249,7 +249,7 @@ pub fn rank_seeds(
             }
             "lp" => {
                 let m = imm_out.as_ref().expect("IMM runs when lp is requested");
-                let l = lp_cover(&c, &m.sets, k, cfg.lp_sets)?;
+                let l = lp_cover(&c, &m.sets, k, cfg.lp_sets, cfg.seed)?;
                 extra.insert(
                     "lp".into(),
                     json!({

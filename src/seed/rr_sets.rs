@@ -21,51 +21,78 @@ use crate::rng::{hash, hit, key, Stage};
 use crate::seed::Cascade;
 
 /// A collection of RR sets stored flat.
+///
+/// Sets with a single member (the root alone — most sets when
+/// probabilities are small) are kept as a per-person count instead of being
+/// stored, unless the collection was made with [`RrSets::new_stored`]; they
+/// count in [`RrSets::len`] and in coverage exactly like stored sets.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct RrSets {
     members: Vec<u32>,
     offsets: Vec<u64>,
+    /// `singles[v]` = single-member sets `{v}` (empty until the first draw).
+    singles: Vec<u32>,
+    single_count: u64,
+    compact: bool,
+    drawn: u64,
     base: u64,
 }
 
-const CHUNK: u64 = 2048;
-
 impl RrSets {
-    /// An empty collection whose set `j` uses the random key of index `base + j`
-    /// (independent collections use distinct bases).
+    /// An empty collection whose `j`-th draw uses the random key of index
+    /// `base + j` (independent collections use distinct bases), with
+    /// single-member sets counted, not stored.
     pub fn new(base: u64) -> RrSets {
-        RrSets { members: Vec::new(), offsets: vec![0], base }
+        RrSets { offsets: vec![0], compact: true, base, ..Default::default() }
     }
 
-    /// Number of sets.
+    /// Like [`RrSets::new`] but storing every set, so that
+    /// [`RrSets::set`] reaches all of them in draw order.
+    pub fn new_stored(base: u64) -> RrSets {
+        RrSets { compact: false, ..RrSets::new(base) }
+    }
+
+    /// Number of sets drawn (stored plus single-member).
     pub fn len(&self) -> usize {
-        self.offsets.len() - 1
+        self.drawn as usize
     }
 
     /// Whether there are no sets.
     pub fn is_empty(&self) -> bool {
-        self.len() == 0
+        self.drawn == 0
     }
 
-    /// Members of set `j`.
+    /// Number of stored sets (reachable with [`RrSets::set`]).
+    pub fn stored_len(&self) -> usize {
+        self.offsets.len() - 1
+    }
+
+    /// Members of stored set `j`.
     #[inline]
     pub fn set(&self, j: usize) -> &[u32] {
         &self.members[self.offsets[j] as usize..self.offsets[j + 1] as usize]
     }
 
-    /// Total members over all sets.
-    pub fn total_members(&self) -> u64 {
-        self.members.len() as u64
+    /// Single-member sets `{v}` that were counted, not stored.
+    #[inline]
+    pub fn singles_of(&self, v: u32) -> u32 {
+        self.singles.get(v as usize).copied().unwrap_or(0)
     }
 
-    /// Bytes held by the members and offsets.
+    /// Total members over all sets.
+    pub fn total_members(&self) -> u64 {
+        self.members.len() as u64 + self.single_count
+    }
+
+    /// Bytes held by the members, offsets and single-member counts.
     pub fn memory_bytes(&self) -> u64 {
-        (self.members.capacity() * 4 + self.offsets.capacity() * 8) as u64
+        (self.members.capacity() * 4 + self.offsets.capacity() * 8 + self.singles.capacity() * 4)
+            as u64
     }
 
     /// Samples sets until there are `target` of them.
     pub fn extend_to(&mut self, c: &Cascade<'_>, target: u64, seed: u64) {
-        let have = self.len() as u64;
+        let have = self.drawn;
         if target <= have {
             return;
         }
@@ -75,52 +102,63 @@ impl RrSets {
             return;
         }
         let n = c.network().node_count();
-        let chunks = (target - have).div_ceil(CHUNK);
+        if self.compact && self.singles.is_empty() {
+            self.singles = vec![0; n];
+        }
+        // A few contiguous parts per thread: each part allocates its visited
+        // marks once. Set j's randomness depends on j only, and parts are
+        // joined in order, so the collection is the same for any split.
+        let count = target - have;
+        let parts = (4 * rayon::current_num_threads() as u64).clamp(1, count.div_ceil(256));
         let base = self.base;
-        let parts: Vec<(Vec<u32>, Vec<u32>)> = (0..chunks)
+        let compact = self.compact;
+        let chunks: Vec<(Vec<u32>, Vec<u32>, Vec<u32>)> = (0..parts)
             .into_par_iter()
-            .map_init(
-                || (vec![0u32; n], 0u32),
-                |(stamp, generation), ch| {
-                    let lo = have + ch * CHUNK;
-                    let hi = (lo + CHUNK).min(target);
-                    let mut members = Vec::new();
-                    let mut lens = Vec::with_capacity((hi - lo) as usize);
-                    for j in lo..hi {
-                        if *generation == u32::MAX {
-                            stamp.fill(0);
-                            *generation = 0;
-                        }
-                        *generation += 1;
-                        let start = members.len();
-                        sample_one(
-                            c,
-                            &roots,
-                            key(seed, Stage::RrSet, base + j),
-                            stamp,
-                            *generation,
-                            &mut members,
-                        );
+            .map(|ch| {
+                let lo = have + count * ch / parts;
+                let hi = have + count * (ch + 1) / parts;
+                let mut stamp = vec![0u32; n];
+                let mut members = Vec::new();
+                let mut lens = Vec::new();
+                let mut singles = Vec::new();
+                for (g, j) in (lo..hi).enumerate() {
+                    let g = g as u32 + 1;
+                    let start = members.len();
+                    sample_one(
+                        c,
+                        &roots,
+                        key(seed, Stage::RrSet, base + j),
+                        &mut stamp,
+                        g,
+                        &mut members,
+                    );
+                    if compact && members.len() == start + 1 {
+                        singles.push(members.pop().expect("the root is a member"));
+                    } else {
                         lens.push((members.len() - start) as u32);
                     }
-                    (members, lens)
-                },
-            )
+                }
+                (members, lens, singles)
+            })
             .collect();
-        let extra: usize = parts.iter().map(|p| p.0.len()).sum();
+        let extra: usize = chunks.iter().map(|p| p.0.len()).sum();
         self.members.reserve(extra);
-        self.offsets.reserve((target - have) as usize);
-        for (m, lens) in parts {
+        for (m, lens, singles) in chunks {
             self.members.extend_from_slice(&m);
             let mut off = *self.offsets.last().expect("offsets start with 0");
             for l in lens {
                 off += u64::from(l);
                 self.offsets.push(off);
             }
+            for v in singles {
+                self.singles[v as usize] += 1;
+                self.single_count += 1;
+            }
         }
+        self.drawn = target;
     }
 
-    /// For each node, the sets that contain it: `(offsets, set ids)`.
+    /// For each node, the stored sets that contain it: `(offsets, set ids)`.
     pub fn inverted(&self, n: usize) -> (Vec<u64>, Vec<u32>) {
         let mut count = vec![0u64; n + 1];
         for &v in &self.members {
@@ -131,7 +169,7 @@ impl RrSets {
         }
         let mut fill = count.clone();
         let mut ids = vec![0u32; self.members.len()];
-        for j in 0..self.len() {
+        for j in 0..self.stored_len() {
             for &v in self.set(j) {
                 ids[fill[v as usize] as usize] = j as u32;
                 fill[v as usize] += 1;
@@ -231,14 +269,17 @@ pub fn greedy_cover_tracked(
 ) -> Coverage {
     let n = c.network().node_count();
     let (inv_off, inv_ids) = sets.inverted(n);
-    let mut cnt: Vec<u32> = (0..n).map(|v| (inv_off[v + 1] - inv_off[v]) as u32).collect();
-    let mut covered_set = vec![false; sets.len()];
+    let mut cnt: Vec<u32> =
+        (0..n).map(|v| (inv_off[v + 1] - inv_off[v]) as u32 + sets.singles_of(v as u32)).collect();
+    let mut covered_set = vec![false; sets.stored_len()];
     let mut chosen = vec![false; n];
     let mut seeds = Vec::with_capacity(k);
     let mut covered = Vec::with_capacity(k);
     let mut total = 0u64;
     let take = |v: u32, cnt: &mut Vec<u32>, covered_set: &mut Vec<bool>| -> u64 {
-        let mut gained = 0;
+        let single = sets.singles_of(v);
+        cnt[v as usize] -= single;
+        let mut gained = u64::from(single);
         for &j in &inv_ids[inv_off[v as usize] as usize..inv_off[v as usize + 1] as usize] {
             if !covered_set[j as usize] {
                 covered_set[j as usize] = true;

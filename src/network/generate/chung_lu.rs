@@ -1,7 +1,7 @@
 //! The Chung–Lu model: independent edges with probability
 //! `min(1, w_u w_v / Σw)` for expected degrees `w` (Chung & Lu 2002).
 
-use super::{bad, GenerateError};
+use super::{bad, check_edges, GenerateError};
 use crate::network::{Network, WeightMerge};
 use crate::rng::{self, Stage};
 use rand::Rng;
@@ -36,6 +36,7 @@ pub fn chung_lu(weights: &[f64], seed: u64) -> Result<Network, GenerateError> {
     }
     let n = weights.len();
     let total: f64 = weights.iter().sum();
+    check_edges("expected degrees", format!("sum {total}"), total / 2.0)?;
     let mut order: Vec<u32> = (0..n as u32).collect();
     // Decreasing weight; ties by index for determinism.
     order.sort_by(|&a, &b| weights[b as usize].total_cmp(&weights[a as usize]).then(a.cmp(&b)));

@@ -5,7 +5,7 @@
 //! (row `w`, columns `v = w + 1 … n − 1`), so edges come out sorted and go
 //! straight to [`Network::from_sorted_unique`].
 
-use super::{bad, check_prob, geometric_skip, GenerateError};
+use super::{bad, check_edges, check_prob, geometric_skip, GenerateError};
 use crate::network::Network;
 use crate::rng::{self, Stage};
 use rand::Rng;
@@ -32,6 +32,7 @@ pub fn gnp(n: u32, p: f64, seed: u64) -> Result<Network, GenerateError> {
     let ln_q = (-p).ln_1p();
     let nn = n as u64;
     let pairs = nn * nn.saturating_sub(1) / 2;
+    check_edges("p", p, pairs as f64 * p)?;
     let mut edges: Vec<[u32; 2]> =
         Vec::with_capacity(((pairs as f64 * p) * 1.05 + 16.0).min(pairs as f64) as usize);
     if nn < 2 {
@@ -83,6 +84,7 @@ pub fn gnm(n: u32, m: u64, seed: u64) -> Result<Network, GenerateError> {
     if m > pairs {
         return Err(bad("m", m, format!("exceeds the {pairs} node pairs of n = {n}")));
     }
+    check_edges("m", m, m as f64)?;
     let mut rng = rng::stream(seed, Stage::Generate, 0);
     let complement = m > pairs / 2;
     let want = if complement { pairs - m } else { m };

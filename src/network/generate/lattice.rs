@@ -4,7 +4,7 @@
 //! right and down neighbours; the triangular lattice adds the diagonal
 //! `(r, c) — (r + 1, c + 1)`, giving every interior node six neighbours.
 
-use super::{bad, GenerateError};
+use super::{bad, check_edges, GenerateError};
 use crate::network::{Network, WeightMerge};
 
 fn grid_edges(side: u32, periodic: bool, diagonal: bool) -> Result<Network, GenerateError> {
@@ -18,6 +18,7 @@ fn grid_edges(side: u32, periodic: bool, diagonal: bool) -> Result<Network, Gene
     if n > u32::MAX as u64 {
         return Err(bad("side", side, "side² nodes exceed the u32 node limit"));
     }
+    check_edges("side", side, n as f64 * if diagonal { 3.0 } else { 2.0 })?;
     let l = side;
     let idx = |r: u32, c: u32| r * l + c;
     let mut edges = Vec::with_capacity((n * if diagonal { 3 } else { 2 }) as usize);

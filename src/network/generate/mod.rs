@@ -78,6 +78,20 @@ pub(crate) fn geometric_skip(rng: &mut ChaCha8Rng, ln_q: f64) -> f64 {
     ((-r).ln_1p() / ln_q).floor()
 }
 
+/// Refuses a model whose (expected) edge count would exceed the `u32`
+/// edge-index limit of [`Network`](crate::network::Network).
+pub(crate) fn check_edges(
+    name: &'static str,
+    value: impl ToString,
+    edges: f64,
+) -> Result<(), GenerateError> {
+    if edges > u32::MAX as f64 * 0.99 {
+        Err(bad(name, value, format!("about {edges:.3e} edges exceed the u32 edge limit")))
+    } else {
+        Ok(())
+    }
+}
+
 /// Checks a probability parameter.
 pub(crate) fn check_prob(name: &'static str, p: f64) -> Result<(), GenerateError> {
     if (0.0..=1.0).contains(&p) {

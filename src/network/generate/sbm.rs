@@ -2,7 +2,7 @@
 //! independently with the probability of its two blocks (Holland, Laskey &
 //! Leinhardt 1983).
 
-use super::{bad, check_prob, geometric_skip, GenerateError};
+use super::{bad, check_edges, check_prob, geometric_skip, GenerateError};
 use crate::network::{Groups, Network, NodeTable};
 use crate::rng::{self, Stage};
 
@@ -58,6 +58,15 @@ pub fn stochastic_block_model(
     for i in 0..b {
         start[i + 1] = start[i] + sizes[i] as u64;
     }
+    let mut expected = 0.0;
+    for a in 0..b {
+        for c in a..b {
+            let (sa, sc) = (sizes[a] as f64, sizes[c] as f64);
+            let pairs = if a == c { sa * (sa - 1.0) / 2.0 } else { sa * sc };
+            expected += pairs * probs[a][c];
+        }
+    }
+    check_edges("probs", format!("{probs:?}"), expected)?;
     let mut rng = rng::stream(seed, Stage::Generate, 0);
     let mut edges: Vec<[u32; 2]> = Vec::new();
     for a in 0..b {

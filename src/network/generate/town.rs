@@ -7,7 +7,7 @@
 //! value. Contacts inside a setting are a clique (households) or a dense
 //! random graph (each pair joined with the setting's probability).
 
-use super::{bad, check_prob, GenerateError};
+use super::{bad, check_edges, check_prob, GenerateError};
 use crate::network::{BuildReport, Groups, Network, NodeTable, WeightMerge};
 use crate::rng::{self, Stage};
 use rand::Rng;
@@ -251,6 +251,9 @@ fn dense(members: &[u32], p: f64, rng: &mut ChaCha8Rng, edges: &mut Vec<(u32, u3
 }
 
 fn check(cfg: &TownConfig) -> Result<(), GenerateError> {
+    if cfg.household_sizes.len() > 100 {
+        return Err(bad("household_sizes", cfg.household_sizes.len(), "at most 100 sizes"));
+    }
     if cfg.household_sizes.is_empty()
         || cfg.household_sizes.iter().any(|w| !w.is_finite() || *w < 0.0)
         || cfg.household_sizes.iter().sum::<f64>() <= 0.0
@@ -277,8 +280,8 @@ fn check(cfg: &TownConfig) -> Result<(), GenerateError> {
         ("class_size", cfg.class_size),
         ("workplace_size", cfg.workplace_size),
     ] {
-        if s == 0 {
-            return Err(bad(name, s, "must be at least 1"));
+        if s == 0 || s > 10_000 {
+            return Err(bad(name, s, "must be between 1 and 10000"));
         }
     }
     if !cfg.community_degree.is_finite() || cfg.community_degree < 0.0 {
@@ -288,6 +291,11 @@ fn check(cfg: &TownConfig) -> Result<(), GenerateError> {
             "must be finite and non-negative",
         ));
     }
+    check_edges(
+        "community_degree",
+        cfg.community_degree,
+        cfg.community_degree * cfg.people as f64 / 2.0,
+    )?;
     Ok(())
 }
 

@@ -1,6 +1,6 @@
 //! The Watts–Strogatz small-world model (Watts & Strogatz 1998).
 
-use super::{bad, check_prob, GenerateError};
+use super::{bad, check_edges, check_prob, GenerateError};
 use crate::network::{Network, WeightMerge};
 use crate::rng::{self, Stage};
 use rand::Rng;
@@ -28,6 +28,7 @@ pub fn watts_strogatz(n: u32, k: u32, beta: f64, seed: u64) -> Result<Network, G
     if k > 0 && k >= n {
         return Err(bad("k", k, format!("must be below n = {n}")));
     }
+    check_edges("k", k, n as f64 * k as f64 / 2.0)?;
     let half = k / 2;
     let nn = n as usize;
     let mut adj: Vec<Vec<u32>> = vec![Vec::with_capacity(k as usize + 2); nn];
