@@ -426,3 +426,21 @@ fn cli_rejects_bad_parameters_with_exit_2() {
     assert!(v["rules"][0]["seeds"].as_array().unwrap().len() == 2);
     assert!(v["rules"][0]["expected_reach"]["ci_low"].is_number());
 }
+
+#[test]
+fn analytic_random_seed_reach_matches_newman_2002_on_poisson() {
+    // Newman 2002: Poisson mean c with bond p: S = 1 − e^{−cpS}
+    // (c = 3.5, p = 0.4: S = 0.5110) and mean finite cluster of a non-giant
+    // node 1/(1 − cp(1 − S)); one random seed reaches N·S² + (1 − S)/(1 − cp(1 − S)).
+    let d = spreadplan::degree::DegreeDistribution::from_spec("poisson:mean=3.5").unwrap();
+    let sol = solve_cascade(&d, 0.4);
+    assert!((sol.s - 0.5110).abs() < 5e-4, "S = {}", sol.s);
+    let n = 1e6;
+    let lambda = 1.4;
+    let closed = n * sol.s * sol.s + (1.0 - sol.s) / (1.0 - lambda * (1.0 - sol.s));
+    let [random, degree, acq] = analytic_reach(&d, 0.4, n, 1);
+    assert!((random.1 / closed - 1.0).abs() < 1e-6, "{} vs {closed}", random.1);
+    // Targeting by degree and acquaintance can only help on average
+    // (higher degree, higher chance to join: 1 − w^k grows with k).
+    assert!(degree.1 > random.1 && acq.1 > random.1);
+}

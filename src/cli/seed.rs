@@ -83,9 +83,7 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
     use spreadplan::seed::{rank_seeds, CascadeModel, SeedConfig, SEED_RULES};
 
     let Some(path) = &args.network else {
-        anyhow::bail!(
-            "`seed --degrees/--degree-model` (degree-distribution mode) is not available yet; use --network"
-        );
+        return run_degrees(&args);
     };
     super::common::init_threads(args.run.threads)?;
     let model = if let Some(p) = args.adopt_prob {
@@ -146,5 +144,36 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
     cfg.ell = args.ell;
     let study = rank_seeds(&loaded, &exclude, &cfg, &spreadplan::progress::Silent)
         .context("cannot rank seeding rules")?;
+    super::common::emit(&study, &args.output)
+}
+
+/// Degree-distribution mode: analytic reach in the configuration model.
+fn run_degrees(args: &Args) -> anyhow::Result<()> {
+    use spreadplan::degree::DegreeDistribution;
+    anyhow::ensure!(
+        args.simulate.is_none(),
+        "--simulate is not available yet in degree-distribution mode"
+    );
+    let d = match (&args.degrees, &args.degree_model) {
+        (Some(f), _) => DegreeDistribution::from_csv_path(f)
+            .with_context(|| format!("cannot read degree distribution {}", f.display()))?,
+        (None, Some(spec)) => DegreeDistribution::from_spec(spec)
+            .with_context(|| format!("bad --degree-model {spec:?}"))?,
+        (None, None) => anyhow::bail!("give --network, --degrees or --degree-model"),
+    };
+    let Some(n) = args.population else {
+        anyhow::bail!("degree-distribution mode needs --population N");
+    };
+    let Some(p) = args.adopt_prob else {
+        anyhow::bail!("degree-distribution mode needs --adopt-prob P");
+    };
+    anyhow::ensure!((0.0..=1.0).contains(&p), "--adopt-prob must be in [0, 1], got {p}");
+    anyhow::ensure!(
+        args.budget >= 1 && args.budget <= n,
+        "--budget must be between 1 and the population ({n}), got {}",
+        args.budget
+    );
+    let study = spreadplan::seed::rank_degree_seeds(&d, p, n, args.budget as usize)
+        .context("cannot compute analytic reach")?;
     super::common::emit(&study, &args.output)
 }

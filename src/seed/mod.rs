@@ -10,9 +10,11 @@
 //! | `imm` | the `ris` rule: IMM (Tang, Shi & Xiao 2015) |
 //! | `lp_cover` | the `lp` rule: coverage LP over RR sets with pipage rounding |
 //! | `bound` | the upper bound on the best reach of `K` seeds (OPIM-C style) |
+//! | `analytic` | degree-distribution mode: generating-function reach of random, degree and acquaintance seeding |
 //! | `rank` | [`SeedConfig`] and [`rank_seeds`], the library entry of `spreadplan seed` |
 
 mod acquaintance;
+mod analytic;
 mod bound;
 mod cascade;
 mod degree;
@@ -25,6 +27,9 @@ mod rank;
 mod rr_sets;
 
 pub use acquaintance::acquaintance_seeds;
+pub use analytic::{
+    analytic_reach, rank_degree_seeds, reach_of_degrees, solve_cascade, CascadeSolution,
+};
 pub use bound::{upper_bound, UpperBound, BOUND_BASE};
 pub use cascade::{Cascade, CascadeModel, SeedError};
 pub use degree::degree_seeds;
