@@ -23,6 +23,14 @@ use super::Present;
 
 /// The CoreHD removal order (see the module doc).
 pub fn corehd_order(present: &Present<'_>) -> Vec<u32> {
+    let (mut order, mut removed) = core_phase(present);
+    break_forest(present.net, &mut removed, &mut order);
+    order
+}
+
+/// The core phase: nodes removed while the 2-core is not empty, in order,
+/// and the removed/absent mask it leaves (a forest remains).
+fn core_phase(present: &Present<'_>) -> (Vec<u32>, Vec<bool>) {
     let net = present.net;
     let n = present.alive.len();
     let mut removed: Vec<bool> = present.alive.iter().map(|a| !a).collect();
@@ -36,7 +44,13 @@ pub fn corehd_order(present: &Present<'_>) -> Vec<u32> {
             stack.push(v);
         }
     }
-    let peel = |stack: &mut Vec<u32>, in_core: &mut Vec<bool>, cdeg: &mut Vec<u32>| {
+    // Peels the nodes on `stack` and everything that falls below core
+    // degree 2 after them; nodes that stay in the core with a lowered core
+    // degree go to `touched`, so their heap key can be refreshed.
+    let peel = |stack: &mut Vec<u32>,
+                in_core: &mut Vec<bool>,
+                cdeg: &mut Vec<u32>,
+                touched: &mut Vec<u32>| {
         while let Some(v) = stack.pop() {
             for &u in net.neighbors(v) {
                 let ui = u as usize;
@@ -45,12 +59,16 @@ pub fn corehd_order(present: &Present<'_>) -> Vec<u32> {
                     if cdeg[ui] < 2 {
                         in_core[ui] = false;
                         stack.push(u);
+                    } else {
+                        touched.push(u);
                     }
                 }
             }
         }
     };
-    peel(&mut stack, &mut in_core, &mut cdeg);
+    let mut touched: Vec<u32> = Vec::new();
+    peel(&mut stack, &mut in_core, &mut cdeg, &mut touched);
+    touched.clear();
     let key = |d: u32, v: u32| ((d as u64) << 32) | (u32::MAX - v) as u64;
     let mut heap: BinaryHeap<u64> =
         (0..n as u32).filter(|&v| in_core[v as usize]).map(|v| key(cdeg[v as usize], v)).collect();
@@ -75,10 +93,15 @@ pub fn corehd_order(present: &Present<'_>) -> Vec<u32> {
                 }
             }
         }
-        peel(&mut stack, &mut in_core, &mut cdeg);
+        peel(&mut stack, &mut in_core, &mut cdeg, &mut touched);
+        for u in touched.drain(..) {
+            if in_core[u as usize] {
+                heap.push(key(cdeg[u as usize], u));
+            }
+        }
     }
-    break_forest(net, &mut removed, &mut order);
-    order
+    debug_assert!(!in_core.iter().any(|&c| c), "the 2-core is empty when the heap is");
+    (order, removed)
 }
 
 /// Appends to `order` every node not yet `removed`, breaking the forest
@@ -116,6 +139,10 @@ pub(crate) fn break_forest(
     }
     let mut parent = vec![u32::MAX; n];
     let mut sub = vec![0u32; n];
+    // Visit stamps: in a forest they change nothing (the only visited
+    // neighbour is the parent), and they keep the search finite otherwise.
+    let mut stamp = vec![0u32; n];
+    let mut round = 0u32;
     let mut singles = Vec::new();
     while let Some((size, Reverse(root))) = heap.pop() {
         if size == 1 {
@@ -125,13 +152,16 @@ pub(crate) fn break_forest(
         // BFS the tree from `root`, then subtree sizes in reverse BFS order.
         queue.clear();
         queue.push(root);
+        round += 1;
+        stamp[root as usize] = round;
         parent[root as usize] = u32::MAX;
         let mut i = 0;
         while i < queue.len() {
             let v = queue[i];
             i += 1;
             for &u in net.neighbors(v) {
-                if !removed[u as usize] && u != parent[v as usize] {
+                if !removed[u as usize] && stamp[u as usize] != round {
+                    stamp[u as usize] = round;
                     parent[u as usize] = v;
                     queue.push(u);
                 }
@@ -196,5 +226,43 @@ mod tests {
         assert_eq!(o.len(), 6);
         // Remaining path 1-2-3-4-5: centroid 3.
         assert_eq!(o[1], 3);
+    }
+
+    /// Regression (issue 4): nodes whose core degree was lowered by a
+    /// peeling cascade kept a stale heap key and stayed in the 2-core, so
+    /// cycles reached the forest phase. After the core phase the 2-core of
+    /// what remains must be empty, on random graphs dense enough to peel.
+    #[test]
+    fn issue4_core_phase_leaves_a_forest() {
+        for seed in 0..8 {
+            let net = crate::network::generate::gnm(400, 700, seed).unwrap();
+            let (_, removed) = core_phase(&Present::new(&net, &[]));
+            let rest: Vec<bool> = removed.iter().map(|r| !r).collect();
+            let mut deg: Vec<u32> = (0..400u32)
+                .map(|v| net.neighbors(v).iter().filter(|&&u| rest[u as usize]).count() as u32)
+                .collect();
+            let mut alive = rest.clone();
+            let mut stack: Vec<u32> =
+                (0..400u32).filter(|&v| alive[v as usize] && deg[v as usize] < 2).collect();
+            for &v in &stack {
+                alive[v as usize] = false;
+            }
+            while let Some(v) = stack.pop() {
+                for &u in net.neighbors(v) {
+                    if alive[u as usize] {
+                        deg[u as usize] -= 1;
+                        if deg[u as usize] < 2 {
+                            alive[u as usize] = false;
+                            stack.push(u);
+                        }
+                    }
+                }
+            }
+            assert!(!alive.iter().any(|&a| a), "seed {seed}: a 2-core survived the core phase");
+            let o = corehd_order(&Present::new(&net, &[]));
+            let mut s = o.clone();
+            s.sort_unstable();
+            assert_eq!(s, (0..400).collect::<Vec<u32>>(), "seed {seed}: not a permutation");
+        }
     }
 }
