@@ -99,6 +99,8 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
         load_node_table(np, &mut loaded)
             .with_context(|| format!("cannot load node table {}", np.display()))?;
     }
-    let study = rank_network(&loaded, &cfg, &spreadplan::progress::Silent)?;
+    let progress = super::progress::for_cli(args.output.quiet);
+    let study = rank_network(&loaded, &cfg, progress.as_ref())?;
+    drop(progress);
     super::common::emit(&study, &args.output)
 }

@@ -142,7 +142,8 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
     cfg.seed = args.run.seed;
     cfg.epsilon = args.epsilon;
     cfg.ell = args.ell;
-    let study = rank_seeds(&loaded, &exclude, &cfg, &spreadplan::progress::Silent)
+    let progress = super::progress::for_cli(args.output.quiet);
+    let study = rank_seeds(&loaded, &exclude, &cfg, progress.as_ref())
         .context("cannot rank seeding rules")?;
     super::common::emit(&study, &args.output)
 }
