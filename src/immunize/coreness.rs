@@ -1,7 +1,8 @@
 //! The `coreness` rule: k-shell order, highest core number first, ties by
 //! higher residual degree, then lower index. Core numbers come from the
 //! Batagelj–Zaversnik (2003, arXiv cs/0310049) O(N + M) bin-sort peeling
-//! on the residual network (absent people removed).
+//! on the residual network (absent people removed), computed by
+//! [`network::inspect::core_numbers_of`](crate::network::inspect::core_numbers_of).
 
 use super::Present;
 
@@ -17,58 +18,7 @@ use super::Present;
 /// assert_eq!(core_numbers_present(&Present::new(&net, &[])), vec![2, 2, 2, 1]);
 /// ```
 pub fn core_numbers_present(present: &Present<'_>) -> Vec<u32> {
-    let net = present.net;
-    let n = present.alive.len();
-    let mut deg = present.degree.clone();
-    let maxd = deg.iter().copied().max().unwrap_or(0) as usize;
-    // bin[d] = start of degree-d block in `vert`.
-    let mut bin = vec![0usize; maxd + 2];
-    for &d in &deg {
-        bin[d as usize + 1] += 1;
-    }
-    for d in 1..bin.len() {
-        bin[d] += bin[d - 1];
-    }
-    let mut pos = vec![0usize; n];
-    let mut vert = vec![0u32; n];
-    {
-        let mut next = bin.clone();
-        for v in 0..n {
-            let d = deg[v] as usize;
-            pos[v] = next[d];
-            vert[next[d]] = v as u32;
-            next[d] += 1;
-        }
-    }
-    for i in 0..n {
-        let v = vert[i];
-        if !present.alive[v as usize] {
-            continue;
-        }
-        let dv = deg[v as usize];
-        for &u in net.neighbors(v) {
-            let ui = u as usize;
-            if present.alive[ui] && deg[ui] > dv {
-                let du = deg[ui] as usize;
-                let pu = pos[ui];
-                let pw = bin[du];
-                let w = vert[pw];
-                if u != w {
-                    vert.swap(pu, pw);
-                    pos[ui] = pw;
-                    pos[w as usize] = pu;
-                }
-                bin[du] += 1;
-                deg[ui] -= 1;
-            }
-        }
-    }
-    for (d, &a) in deg.iter_mut().zip(&present.alive) {
-        if !a {
-            *d = 0;
-        }
-    }
-    deg
+    crate::network::inspect::core_numbers_of(present.net, Some(&present.alive))
 }
 
 /// Highest core number first, ties by higher residual degree, then lower

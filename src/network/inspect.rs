@@ -96,14 +96,33 @@ impl Components {
 /// assert_eq!(core_numbers(&net), vec![2, 2, 2, 1]);
 /// ```
 pub fn core_numbers(net: &Network) -> Vec<u32> {
+    core_numbers_of(net, None)
+}
+
+/// Core numbers of the subnetwork induced by the nodes with `alive[v]`
+/// (all nodes when `None`); nodes that are not alive get 0. The same
+/// Batagelj–Zaversnik peeling as [`core_numbers`], on the residual network.
+///
+/// ```
+/// use spreadplan::network::{inspect::core_numbers_of, Network, WeightMerge};
+/// // A triangle with a pendant node; without node 0 the rest is a path.
+/// let e = vec![(0, 1), (1, 2), (0, 2), (2, 3)];
+/// let (net, _) = Network::from_edges(4, false, e, None, WeightMerge::Max).unwrap();
+/// assert_eq!(core_numbers_of(&net, Some(&[false, true, true, true])), vec![0, 1, 1, 1]);
+/// ```
+pub fn core_numbers_of(net: &Network, alive: Option<&[bool]>) -> Vec<u32> {
     let n = net.node_count();
     let directed = net.is_directed();
+    let live = |v: u32| alive.is_none_or(|a| a[v as usize]);
+    let count = |nb: &[u32]| nb.iter().filter(|&&u| live(u)).count();
     let mut deg: Vec<u32> = (0..n as u32)
         .map(|v| {
-            if directed {
-                (net.degree(v) + net.in_degree(v)) as u32
+            if !live(v) {
+                0
+            } else if directed {
+                (count(net.neighbors(v)) + count(net.in_neighbors(v))) as u32
             } else {
-                net.degree(v) as u32
+                count(net.neighbors(v)) as u32
             }
         })
         .collect();
@@ -133,10 +152,13 @@ pub fn core_numbers(net: &Network) -> Vec<u32> {
     bin[0] = 0;
     for i in 0..n {
         let v = vert[i];
+        if !live(v) {
+            continue;
+        }
         let dv = deg[v as usize];
         let mut peel = |u: u32| {
             let du = deg[u as usize];
-            if du > dv {
+            if du > dv && live(u) {
                 let pu = pos[u as usize];
                 let pw = bin[du as usize];
                 let w = vert[pw as usize];
