@@ -444,3 +444,72 @@ fn analytic_random_seed_reach_matches_newman_2002_on_poisson() {
     // (higher degree, higher chance to join: 1 − w^k grows with k).
     assert!(degree.1 > random.1 && acq.1 > random.1);
 }
+
+#[test]
+fn simulated_random_seed_reach_on_sampled_poisson_matches_newman_2002() {
+    // Newman 2002 (PRE 66:016128): Poisson mean c under bond probability p
+    // has live-graph giant fraction S = 1 − e^{−cpS} (c·p = 1.4: S = 0.5110,
+    // REFERENCES.md); one random seed reaches N·S² plus the small-cluster
+    // term (1 − S)/(1 − cp(1 − S)) (mean finite cluster of a non-giant node).
+    let (c, p, n_sim) = (3.5, 0.4, 20_000u64);
+    let lambda = c * p;
+    let mut s = 0.5;
+    for _ in 0..200 {
+        s = 1.0 - f64::exp(-lambda * s);
+    }
+    assert!((s - 0.5110).abs() < 5e-4, "S = {s}");
+    let closed = n_sim as f64 * s * s + (1.0 - s) / (1.0 - lambda * (1.0 - s));
+    let d = spreadplan::degree::DegreeDistribution::from_spec("poisson:mean=3.5").unwrap();
+    let analytic = analytic_reach(&d, p, n_sim as f64, 1)[0].1;
+    assert!((analytic / closed - 1.0).abs() < 1e-6, "{analytic} vs {closed}");
+    let loaded = spreadplan::immunize::analytic::sample_network(&d, n_sim as usize, 7).unwrap();
+    let sim = simulate_degree_seeds(&loaded, p, 1, 300, 4, 11, &Silent).unwrap();
+    let random = sim.rules.iter().find(|r| r.rule == "random").unwrap();
+    let Some(spreadplan::outcome::Metric::Estimate(est)) = random.metrics.get("expected_reach")
+    else {
+        panic!("no estimate: {:?}", random.metrics)
+    };
+    // The 95% interval pools 300 independent seed draws (≈ ±6%); widened by
+    // 2% of the value for finite size at 2·10⁴ (giant fraction and erased
+    // self-loops/multi-edges of the sampled configuration model; common
+    // practice, no source).
+    let tol = est.half_width() + 0.02 * closed;
+    assert!(
+        (est.mean - closed).abs() <= tol,
+        "simulated {est:?} vs N·S² + small-cluster term {closed} (tolerance {tol})"
+    );
+}
+
+#[test]
+fn cli_degree_mode_simulate_reports_both_columns() {
+    let out = run_cli(&[
+        "seed",
+        "--degree-model",
+        "poisson:mean=3.5",
+        "--population",
+        "100000",
+        "--budget",
+        "2",
+        "--adopt-prob",
+        "0.4",
+        "--simulate",
+        "2000",
+        "--runs",
+        "5",
+        "--format",
+        "json",
+        "--quiet",
+    ]);
+    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let rules = v["rules"].as_array().unwrap();
+    assert_eq!(rules.len(), 3);
+    for r in rules {
+        assert!(r["metrics"]["expected_reach"].is_number(), "{r}");
+        assert!(r["metrics"]["simulated_expected_reach"]["ci_low"].is_number(), "{r}");
+        assert!(r["metrics"]["simulated_reach_fraction"]["mean"].is_number(), "{r}");
+        assert!(r["metrics"]["expected_reach_at_simulated_size"].is_number(), "{r}");
+        assert!(r["simulated_rank"].is_number(), "{r}");
+    }
+    assert_eq!(v["simulation"]["people"], 2000);
+}

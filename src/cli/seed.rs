@@ -148,13 +148,12 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
     super::common::emit(&study, &args.output)
 }
 
+/// Independent seed draws pooled by `--simulate` in degree-distribution mode.
+const SIM_DRAWS: u32 = 20;
+
 /// Degree-distribution mode: analytic reach in the configuration model.
 fn run_degrees(args: &Args) -> anyhow::Result<()> {
     use spreadplan::degree::DegreeDistribution;
-    anyhow::ensure!(
-        args.simulate.is_none(),
-        "--simulate is not available yet in degree-distribution mode"
-    );
     let d = match (&args.degrees, &args.degree_model) {
         (Some(f), _) => DegreeDistribution::from_csv_path(f)
             .with_context(|| format!("cannot read degree distribution {}", f.display()))?,
@@ -174,7 +173,34 @@ fn run_degrees(args: &Args) -> anyhow::Result<()> {
         "--budget must be between 1 and the population ({n}), got {}",
         args.budget
     );
-    let study = spreadplan::seed::rank_degree_seeds(&d, p, n, args.budget as usize)
+    let budget = args.budget as usize;
+    let mut study = spreadplan::seed::rank_degree_seeds(&d, p, n, budget)
         .context("cannot compute analytic reach")?;
+    if let Some(n_sim) = args.simulate {
+        super::common::init_threads(args.run.threads)?;
+        anyhow::ensure!(
+            (2..=u64::from(u32::MAX)).contains(&n_sim) && args.budget <= n_sim,
+            "--simulate must be between 2 (and at least --budget) and {}, got {n_sim}",
+            u32::MAX
+        );
+        anyhow::ensure!(args.run.runs >= 1, "--runs must be at least 1, got {}", args.run.runs);
+        let loaded =
+            spreadplan::immunize::analytic::sample_network(&d, n_sim as usize, args.run.seed)
+                .context("cannot sample a configuration-model network")?;
+        let progress = super::progress::for_cli(args.output.quiet);
+        // K seeds stay K in the sample; random and acquaintance are averaged
+        // over SIM_DRAWS independent seed draws (see simulate_degree_seeds).
+        let simulated = spreadplan::seed::simulate_degree_seeds(
+            &loaded,
+            p,
+            budget,
+            SIM_DRAWS,
+            args.run.runs,
+            args.run.seed,
+            progress.as_ref(),
+        )
+        .context("cannot simulate seeding on the sampled network")?;
+        spreadplan::seed::merge_degree_simulation(&mut study, &simulated, &d, p, budget, n_sim);
+    }
     super::common::emit(&study, &args.output)
 }

@@ -672,16 +672,17 @@ pub fn sample_network(
 /// 95% intervals) for giant_fraction, mean_outbreak_fraction,
 /// outbreak_probability, r_eff, and `simulated_doses_to_contain` rescaled
 /// from the sampled size `n_sim` to the population; the simulated rank is
-/// kept as `simulated_rank`.
+/// kept as `simulated_rank`. The shared part is [`merge_simulated_metrics`].
 pub fn merge_simulated(analytic: &mut Study, simulated: &Study, n_sim: u64, population: u64) {
     let scale = population as f64 / n_sim.max(1) as f64;
+    merge_simulated_metrics(
+        analytic,
+        simulated,
+        &["giant_fraction", "mean_outbreak_fraction", "outbreak_probability", "r_eff"],
+        n_sim,
+    );
     for r in &mut analytic.rules {
         let Some(s) = simulated.rules.iter().find(|x| x.rule == r.rule) else { continue };
-        for m in ["giant_fraction", "mean_outbreak_fraction", "outbreak_probability", "r_eff"] {
-            if let Some(v) = s.metrics.get(m) {
-                r.metrics.insert(format!("simulated_{m}"), v.clone());
-            }
-        }
         let dtc = match s.metrics.get("doses_to_contain") {
             Some(Metric::Count(c)) => Metric::Number((*c as f64 * scale).round()),
             Some(Metric::Number(x)) => Metric::Number((x * scale).round()),
@@ -690,6 +691,31 @@ pub fn merge_simulated(analytic: &mut Study, simulated: &Study, n_sim: u64, popu
             None => Metric::Missing,
         };
         r.metrics.insert("simulated_doses_to_contain".into(), dtc);
+    }
+    analytic
+        .notes
+        .push(format!("simulated_doses_to_contain rescaled to the population of {population}"));
+}
+
+/// The command-independent part of a `--simulate` merge (used by
+/// immunization and seeding): for each analytic rule with a namesake in
+/// `simulated`, copies each listed metric as `simulated_<metric>` (as
+/// computed on the sampled network of `n_sim` people, not rescaled) and
+/// the simulated rank as `simulated_rank`; records the simulation's input
+/// and parameters under `extra.simulation` and appends its notes.
+pub fn merge_simulated_metrics(
+    analytic: &mut Study,
+    simulated: &Study,
+    metrics: &[&str],
+    n_sim: u64,
+) {
+    for r in &mut analytic.rules {
+        let Some(s) = simulated.rules.iter().find(|x| x.rule == r.rule) else { continue };
+        for m in metrics {
+            if let Some(v) = s.metrics.get(*m) {
+                r.metrics.insert(format!("simulated_{m}"), v.clone());
+            }
+        }
         r.extra.insert("simulated_rank".into(), json!(s.rank));
     }
     analytic.extra.insert(
@@ -702,8 +728,7 @@ pub fn merge_simulated(analytic: &mut Study, simulated: &Study, n_sim: u64, popu
     );
     analytic.notes.push(format!(
         "simulated_* metrics: Monte Carlo on a configuration-model network of {n_sim} people \
-         sampled from the distribution (95% intervals); doses_to_contain rescaled to the \
-         population of {population}"
+         sampled from the distribution (95% intervals)"
     ));
     analytic.notes.extend(simulated.notes.iter().map(|n| format!("simulation: {n}")));
 }

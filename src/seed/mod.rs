@@ -28,7 +28,8 @@ mod rr_sets;
 
 pub use acquaintance::acquaintance_seeds;
 pub use analytic::{
-    analytic_reach, rank_degree_seeds, reach_of_degrees, solve_cascade, CascadeSolution,
+    analytic_reach, merge_degree_simulation, rank_degree_seeds, reach_of_degrees,
+    simulate_degree_seeds, solve_cascade, CascadeSolution, SIMULATED_RULES, SIM_BOUND_SETS,
 };
 pub use bound::{upper_bound, UpperBound, BOUND_BASE};
 pub use cascade::{Cascade, CascadeModel, SeedError};
