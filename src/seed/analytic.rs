@@ -22,8 +22,8 @@
 //! cascade when it stays finite). Random seeds draw `k` from `p_k`,
 //! acquaintances from `k p_k / ⟨k⟩` (a random contact of a random person),
 //! highest-degree seeds take the `K` largest degrees expected among `N`
-//! people (walking the support from the top, `round(N p_k)` people of
-//! degree `k`, at least one of the top degree).
+//! people (walking the support from the top: `round(N P(K ≥ k))` people
+//! have degree at least `k`).
 
 use crate::degree::DegreeDistribution;
 
@@ -129,10 +129,14 @@ pub fn analytic_reach(d: &DegreeDistribution, p: f64, n: f64, budget: usize) -> 
     let random = n * sol.s * (1.0 - m_r.powf(kk)) + kk * f_r;
     let (m_a, f_a) = expect(&|k, q| k * q / mean);
     let acquaintance = n * sol.s * (1.0 - m_a.powf(kk)) + kk * f_a;
-    // Highest degrees: walk the support from the top, N·p_k people each.
+    // Highest degrees: walk the support from the top; the people of degree
+    // at least k are round(N·P(K ≥ k)), so the largest degree seeded is the
+    // one N people realistically reach (N·P(K ≥ k) ≈ 1), not the far tail.
     let mut top = Vec::with_capacity(budget);
+    let mut tail = 0.0;
     for &(k, q) in pairs.iter().rev() {
-        let mut people = (n * q).round().max(if top.is_empty() { 1.0 } else { 0.0 });
+        tail += q;
+        let mut people = (n * tail).round() - top.len() as f64;
         while people >= 1.0 && top.len() < budget {
             top.push(k);
             people -= 1.0;
