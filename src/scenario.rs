@@ -176,8 +176,8 @@ pub enum Parameters {
     /// [`crate::immunize::analytic::AnalyticConfig`] (its `population` is
     /// the population the distribution describes).
     ImmunizeDistribution(crate::immunize::analytic::AnalyticConfig),
-    /// Threshold-study parameters (kept as TOML until the study consumes them).
-    Threshold(toml::Table),
+    /// Threshold study on a network: [`crate::percolation::ThresholdConfig`].
+    Threshold(crate::percolation::ThresholdConfig),
 }
 
 /// A parsed scenario.
@@ -359,7 +359,7 @@ impl Scenario {
                 )
             }
             Kind::Threshold => {
-                let f: File<toml::Table> = parse(&name, text)?;
+                let f: File<crate::percolation::ThresholdConfig> = parse(&name, text)?;
                 (
                     f.name,
                     f.kind,
@@ -498,8 +498,17 @@ impl Scenario {
                 add_distribution_points(&mut s, &dist);
                 s
             }
-            Parameters::Threshold(_) => {
-                return Err(self.unsupported("kind = \"threshold\" is not available in this build"))
+            Parameters::Threshold(cfg) => {
+                if self.distribution.is_some() {
+                    return Err(self.unsupported(
+                        "kind = \"threshold\" needs a [network] input, not [distribution]",
+                    ));
+                }
+                let loaded = self.load_network(WeightMerge::default())?;
+                let mut s = crate::percolation::threshold_study(&loaded, cfg, progress)
+                    .map_err(|e| self.ranking_err(e))?;
+                add_degree_distribution(&mut s, &loaded);
+                s
             }
         };
         let mut input = indexmap::IndexMap::new();
@@ -665,5 +674,23 @@ mod tests {
         assert_eq!(sc.output_dir(), Some(PathBuf::from("d/out")));
         assert_eq!(sc.resolve(Path::new("e.csv")), PathBuf::from("d/e.csv"));
         assert!(matches!(sc.parameters, Parameters::Seed(ref c) if c.budget == 3));
+    }
+
+    #[test]
+    fn threshold_parameters_parse_with_defaults() {
+        let sc = Scenario::from_str_at(
+            "kind = \"threshold\"\n[network]\nedges = \"e.csv\"\n[parameters]\nsite = true\npoints = 5\n",
+            Path::new("s.toml"),
+            Path::new("."),
+        )
+        .unwrap();
+        let Parameters::Threshold(c) = &sc.parameters else { panic!("{:?}", sc.parameters) };
+        assert!(c.site);
+        assert_eq!((c.points, c.runs), (5, 100));
+        let s = err(
+            "kind = \"threshold\"\n[network]\nedges = \"e.csv\"\n[parameters]\npoints = \"many\"\n",
+        )
+        .to_string();
+        assert!(s.starts_with("s.toml:5: parameters.points:"), "{s}");
     }
 }

@@ -274,3 +274,120 @@ fn threshold_command_json() {
     let bad = super::common::spreadplan(&["threshold", f.to_str().unwrap(), "--points", "1"]);
     assert_eq!(bad.status.code(), Some(2));
 }
+
+#[test]
+fn threshold_study_on_random_regular_graph() {
+    // Bethe lattice: bond p_c = 1/(k − 1) = 0.5 for k = 3. On a k-regular graph
+    // every directed edge has k − 1 non-backtracking successors, so the radius
+    // is exactly k − 1 and message passing gives exactly 1/(k − 1) (Karrer,
+    // Newman & Zdeborová 2014); the configuration model gives k/(k² − k), the
+    // same value (Molloy & Reed 1995). The Newman–Ziff peak lies within the
+    // critical window ~ N^{−1/3} (Bollobás 1984; from memory) plus its own CI.
+    use spreadplan::network::load::Loaded;
+    use spreadplan::network::NodeTable;
+    use spreadplan::outcome::Metric;
+    use spreadplan::percolation::{threshold_study, ThresholdConfig};
+    let (n, k) = (20_000u32, 3u32);
+    let network = random_regular(n, k, 5).unwrap();
+    let loaded =
+        Loaded { network, nodes: NodeTable::numbered(n as usize), report: Default::default() };
+    let cfg = ThresholdConfig { runs: 10, points: 11, ..Default::default() };
+    let s = threshold_study(&loaded, &cfg, &spreadplan::progress::Silent).unwrap();
+    let want = 1.0 / (k - 1) as f64;
+    let mp = &s.extra["critical_transmissibility"]["message_passing"];
+    for key in ["estimate", "lower", "upper"] {
+        assert!((mp[key].as_f64().unwrap() - want).abs() < 1e-12, "{key}: {mp}");
+    }
+    assert_eq!(s.baseline["critical_transmissibility_message_passing"], Metric::Number(want));
+    assert_eq!(s.extra["critical_transmissibility"]["configuration_model"], want);
+    let Metric::Estimate(nzc) = &s.baseline["critical_transmissibility"] else { panic!() };
+    assert!((nzc.mean - want).abs() < (n as f64).powf(-1.0 / 3.0) + nzc.half_width(), "{nzc:?}");
+    // The curve: 11 points × 3 metrics; at T = 0 nobody beyond the case is reached.
+    assert_eq!(s.curves.len(), 33);
+    let g0 = s.extra["curve"][0]["giant_fraction"]["mean"].as_f64().unwrap();
+    assert!((g0 - 1.0 / n as f64).abs() < 1e-15, "{g0}");
+    // Invalid parameters are refused, naming the bad value.
+    let bad = ThresholdConfig { points: 1, ..cfg };
+    let e = threshold_study(&loaded, &bad, &spreadplan::progress::Silent).unwrap_err();
+    assert!(e.to_string().contains("got 1"), "{e}");
+}
+
+#[test]
+fn threshold_scenario_runs_twice_identically_and_matches_the_command() {
+    // Issue 7: a scenario reproduces a study byte for byte; `kind = "threshold"`
+    // gives the same study as `spreadplan threshold` with the same parameters.
+    // Zachary's karate club (Zachary 1977) is connected, so at T = 1 the
+    // giant component is everyone.
+    let dir = super::common::tempdir("threshold-scenario");
+    std::fs::copy(super::common::data("karate.csv"), dir.join("karate.csv")).unwrap();
+    let sc = dir.join("karate.toml");
+    std::fs::write(
+        &sc,
+        "name = \"karate threshold\"\nkind = \"threshold\"\n\n[network]\nedges = \"karate.csv\"\n\n\
+         [parameters]\nruns = 12\nseed = 99\npoints = 6\n\n[outputs]\ndir = \"out\"\n",
+    )
+    .unwrap();
+    for (out, threads) in [("a", "1"), ("b", "2")] {
+        let o = super::common::spreadplan(&[
+            "run",
+            sc.to_str().unwrap(),
+            "--out",
+            dir.join(out).to_str().unwrap(),
+            "--quiet",
+            "--threads",
+            threads,
+        ]);
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    }
+    for f in ["summary.json", "curves.csv", "report.html"] {
+        let a = std::fs::read(dir.join("a").join(f)).unwrap();
+        assert!(!a.is_empty(), "{f} empty");
+        assert_eq!(a, std::fs::read(dir.join("b").join(f)).unwrap(), "{f} differs");
+    }
+    let v: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(dir.join("a/summary.json")).unwrap()).unwrap();
+    assert_eq!(v["command"], "threshold");
+    assert_eq!(v["parameters"]["runs"], 12);
+    assert_eq!(v["parameters"]["scenario"], "karate threshold");
+    assert!(v["input"]["scenario_hash"].is_string());
+    let curve = v["curve"].as_array().unwrap();
+    assert_eq!(curve.len(), 6);
+    assert_eq!(curve[5]["transmissibility"], 1.0);
+    assert_eq!(curve[5]["giant_fraction"]["mean"], 1.0);
+    // Same numbers as the command with the same flags.
+    let cmd = super::common::spreadplan(&[
+        "threshold",
+        dir.join("karate.csv").to_str().unwrap(),
+        "--runs",
+        "12",
+        "--seed",
+        "99",
+        "--points",
+        "6",
+        "--format",
+        "json",
+    ]);
+    assert!(cmd.status.success(), "{}", String::from_utf8_lossy(&cmd.stderr));
+    let c: serde_json::Value = serde_json::from_slice(&cmd.stdout).unwrap();
+    assert_eq!(c["critical_transmissibility"], v["critical_transmissibility"]);
+    assert_eq!(c["curve"], v["curve"]);
+    // The report draws the curves over T with the critical-T line.
+    let html = std::fs::read_to_string(dir.join("a/report.html")).unwrap();
+    for id in ["curve-giant_fraction", "curve-mean_outbreak_fraction"] {
+        let start = html.find(&format!("<figure id=\"{id}\"")).unwrap_or_else(|| panic!("{id}"));
+        let fig = &html[start..start + html[start..].find("</figure>").unwrap()];
+        assert!(fig.contains("<svg") && fig.contains("<polyline"), "{id}");
+        assert!(fig.contains("critical T = "), "{id}");
+    }
+    assert!(html.contains("transmissibility T (probability per contact)"));
+    // An unknown parameter names its key and line.
+    std::fs::write(
+        &sc,
+        "kind = \"threshold\"\n[network]\nedges = \"karate.csv\"\n[parameters]\nrunz = 3\n",
+    )
+    .unwrap();
+    let o = super::common::spreadplan(&["run", sc.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(err.contains("karate.toml:5: parameters.runz:"), "{err}");
+}

@@ -1,7 +1,8 @@
 //! Percolation on a [`Network`](crate::network::Network): union–find,
 //! bond and site realizations from counter-based coins, reverse-add budget
 //! curves, Newman–Ziff sweeps, the non-backtracking spectral radius
-//! (message-passing threshold) and directed-network components.
+//! (message-passing threshold), directed-network components and the
+//! threshold study that puts them side by side.
 //!
 //! Callers use the flat list below (`percolation::budget_curve`, …)
 //! whatever the file layout.
@@ -10,6 +11,7 @@ mod budget_curve;
 mod directed;
 mod nonbacktracking;
 mod realization;
+mod study;
 mod sweep;
 mod union_find;
 
@@ -29,5 +31,6 @@ pub use realization::{
     bond_realization, dose_takes, large_outbreak_min, EdgeThresholds, PercolationError,
     Transmissibility,
 };
+pub use study::{threshold_study, ThresholdConfig};
 pub use sweep::{binomial_weights, newman_ziff, Sweep, SweepConfig, SweepPoint};
 pub use union_find::UnionFind;

@@ -133,6 +133,9 @@ pub enum PercolationError {
     /// The computation needs a directed network.
     #[error("{0} needs a directed network")]
     Undirected(&'static str),
+    /// A relative tolerance outside `(0, 1)` (or NaN).
+    #[error("tolerance must lie in (0, 1), got {0}")]
+    Tolerance(f64),
     /// A count parameter is out of range.
     #[error("{what} must be at least {min}, got {value}")]
     TooSmall {
