@@ -434,9 +434,9 @@ fn network_lp_is_the_cost_knapsack_and_stays_within_budget() {
         for &v in given {
             per[plan.class_of[v as usize] as usize] += 1;
         }
-        for c in 0..t.len() {
+        for (c, (&got, &lp)) in per.iter().zip(&plan.alloc.doses).enumerate() {
             // Leftover budget (< one dose of the next class) may go down the order.
-            assert!(per[c] >= plan.alloc.doses[c], "realization {r} class {c}");
+            assert!(got >= lp, "realization {r} class {c}");
         }
         assert!(cost - spend < 3.0 + 1e-9, "leftover spent beyond one dose: {cost} vs {spend}");
     }
