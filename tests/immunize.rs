@@ -341,3 +341,276 @@ fn cli_json_carries_allocation_and_doses_to_contain() {
     assert_eq!(first["doses_to_contain"], serde_json::json!(1));
     assert!(v["cautions"][0].as_str().unwrap().contains("public-health"));
 }
+
+/// gnm(2000, 4000): group "a" = nodes below 1000 (cost 1, uptake `ua`),
+/// group "b" = the rest (cost 3, uptake 1).
+fn two_groups(ua: f64) -> Loaded {
+    let n = 2000u32;
+    let network = generate::gnm(n, 4000, 21).unwrap();
+    let mut nodes = NodeTable::numbered(n as usize);
+    let a = |v: u32| v < n / 2;
+    nodes.groups = Some(spreadplan::network::Groups {
+        names: vec!["a".into(), "b".into()],
+        of: (0..n).map(|v| u32::from(!a(v))).collect(),
+    });
+    nodes.cost = Some((0..n).map(|v| if a(v) { 1.0 } else { 3.0 }).collect());
+    nodes.uptake = Some((0..n).map(|v| if a(v) { ua } else { 1.0 }).collect());
+    Loaded { network, nodes, report: Default::default() }
+}
+
+/// Fractional knapsack over (weight per person, cost per person, capacity in
+/// people) items: the LP optimum with only a budget constraint.
+fn fractional_knapsack(mut items: Vec<(f64, f64, f64)>, budget: f64) -> f64 {
+    items.sort_by(|x, y| (y.0 / y.1).total_cmp(&(x.0 / x.1)));
+    let (mut left, mut value) = (budget, 0.0);
+    for (w, c, cap) in items {
+        let take = cap.min(left / c).max(0.0);
+        value += take * w;
+        left -= take * c;
+    }
+    value
+}
+
+/// The lp rule's dose sequence in realization `r`, built as rank_network
+/// builds it (same rule stream, same uptake coins), with its doses at `budget`.
+fn lp_doses(
+    l: &Loaded,
+    plan: &spreadplan::immunize::lp_allocation::NetworkLpPlan,
+    seed: u64,
+    r: u64,
+    budget: f64,
+) -> (Vec<u32>, u64, Option<Vec<bool>>) {
+    let accepts: Option<Vec<bool>> = l.nodes.uptake.as_ref().map(|up| {
+        let key = rng::key(seed, Stage::Uptake, r);
+        (0..up.len()).map(|v| rng::hit(rng::threshold(up[v]), rng::hash(key, v as u64))).collect()
+    });
+    let mut s = rng::stream(seed, Stage::Rule, r);
+    let order = plan.order(accepts.as_deref(), &mut s);
+    let (seq, d) = spreadplan::immunize::dose_sequence(
+        &order,
+        &l.nodes,
+        spreadplan::immunize::DoseBudget::Cost(budget),
+        seed,
+        r,
+    );
+    (seq, d, accepts)
+}
+
+#[test]
+fn network_lp_is_the_cost_knapsack_and_stays_within_budget() {
+    use spreadplan::immunize::lp_allocation::NetworkLpPlan;
+    // Source: LP optimality of the fractional knapsack (Dantzig 1957): with
+    // only the budget binding, max Σ k(k−1) n_c v_c s.t. Σ cost_c n_c v_c ≤ B,
+    // 0 ≤ v_c ≤ 1, is filled by k(k−1)/cost descending; degree classes as in
+    // Callaway et al. (2000) targeting.
+    let l = two_groups(1.0);
+    let budget = 300.0;
+    let plan = NetworkLpPlan::new(&l.network, &l.nodes, budget, &[]).unwrap();
+    let t = &plan.table;
+    let items = (0..t.len())
+        .map(|c| {
+            let k = f64::from(t.degree[c]);
+            (k * (k - 1.0), t.cost[c], t.count[c])
+        })
+        .collect();
+    let want = fractional_knapsack(items, budget);
+    assert!(
+        (plan.alloc.objective - want).abs() <= 1e-6 * want,
+        "{} vs {want}",
+        plan.alloc.objective
+    );
+    assert!(plan.alloc.binding.iter().any(|b| b == "budget"));
+    // Integer doses cost at most the budget.
+    let spend: f64 = (0..t.len()).map(|c| plan.alloc.doses[c] as f64 * t.cost[c]).sum();
+    assert!(spend <= budget + 1e-9);
+    // Every realization: spend ≤ budget, and each class gets exactly its LP doses.
+    let seed = 7;
+    for r in 0..20 {
+        let (seq, d, _) = lp_doses(&l, &plan, seed, r, budget);
+        let given = &seq[..d as usize];
+        let cost: f64 = given.iter().map(|&v| l.nodes.cost_of(v)).sum();
+        assert!(cost <= budget + 1e-9, "realization {r}: {cost}");
+        let mut per = vec![0u64; t.len()];
+        for &v in given {
+            per[plan.class_of[v as usize] as usize] += 1;
+        }
+        for (c, (&got, &lp)) in per.iter().zip(&plan.alloc.doses).enumerate() {
+            // Leftover budget (< one dose of the next class) may go down the order.
+            assert!(got >= lp, "realization {r} class {c}");
+        }
+        assert!(cost - spend < 3.0 + 1e-9, "leftover spent beyond one dose: {cost} vs {spend}");
+    }
+    // Through rank_network: the lp entry carries the LP and the cost stays in budget.
+    let mut cfg = ImmunizeConfig::new(Budget::Amount(budget), 0.4);
+    cfg.rules = vec!["lp".into(), "degree".into()];
+    cfg.runs = 8;
+    cfg.seed = seed;
+    cfg.target_r_eff = Some(1.0);
+    let s = rank_network(&l, &cfg, &spreadplan::progress::Silent).unwrap();
+    let lp = s.rules.iter().find(|o| o.rule == "lp").unwrap();
+    assert!(lp.extra["cost"]["ci_high"].as_f64().unwrap() <= budget + 1e-9);
+    assert_eq!(lp.extra["lp"]["doses"].as_u64().unwrap(), plan.alloc.doses.iter().sum::<u64>());
+    assert!(lp.extra["lp_target"]["estimate"].as_str().unwrap().contains("analytic"));
+}
+
+#[test]
+fn network_lp_meets_a_group_floor() {
+    use spreadplan::immunize::lp_allocation::{parse_group_limits, NetworkLpPlan};
+    // Source: LP optimality. With a floor "a >= F" on group a (all of a at
+    // cost 1), the optimum is max over x (people dosed in a, F|a| ≤ x ≤
+    // Σ_a uptake·n_c) of best_a(x) + knapsack_b(B − x); that function is
+    // concave piecewise linear, so its maximum sits at a breakpoint, and we
+    // enumerate them (brute force). Degree classes: Callaway et al. (2000).
+    let l = two_groups(0.8);
+    let (budget, floor) = (300.0, 0.25);
+    let limits = parse_group_limits("a>=0.25").unwrap();
+    let plan = NetworkLpPlan::new(&l.network, &l.nodes, budget, &limits).unwrap();
+    let t = &plan.table;
+    let in_a = |c: usize| t.group[c] == Some(0);
+    let w = |c: usize| {
+        let k = f64::from(t.degree[c]);
+        k * (k - 1.0)
+    };
+    let size_a: f64 = (0..t.len()).filter(|&c| in_a(c)).map(|c| t.count[c]).sum();
+    let a_items: Vec<(f64, f64, f64)> =
+        (0..t.len()).filter(|&c| in_a(c)).map(|c| (w(c), 1.0, t.count[c] * t.uptake[c])).collect();
+    let b_items: Vec<(f64, f64, f64)> =
+        (0..t.len()).filter(|&c| !in_a(c)).map(|c| (w(c), t.cost[c], t.count[c])).collect();
+    let a_cap: f64 = a_items.iter().map(|x| x.2).sum();
+    let mut xs = vec![floor * size_a, a_cap.min(budget)];
+    let mut acc = 0.0;
+    let mut sorted_a = a_items.clone();
+    sorted_a.sort_by(|x, y| y.0.total_cmp(&x.0));
+    for it in &sorted_a {
+        acc += it.2;
+        xs.push(acc);
+    }
+    let mut sorted_b = b_items.clone();
+    sorted_b.sort_by(|x, y| (y.0 / y.1).total_cmp(&(x.0 / x.1)));
+    let mut spent_b = 0.0;
+    for it in &sorted_b {
+        spent_b += it.1 * it.2;
+        xs.push(budget - spent_b);
+    }
+    let best = xs
+        .into_iter()
+        .filter(|&x| x >= floor * size_a - 1e-9 && x <= a_cap.min(budget) + 1e-9)
+        .map(|x| {
+            fractional_knapsack(a_items.clone(), x)
+                + fractional_knapsack(b_items.clone(), budget - x)
+        })
+        .fold(f64::NEG_INFINITY, f64::max);
+    assert!(
+        (plan.alloc.objective - best).abs() <= 1e-6 * best,
+        "{} vs {best}",
+        plan.alloc.objective
+    );
+    // The floor binds here (the knapsack alone would give a less).
+    assert!(plan.alloc.binding.iter().any(|b| b.starts_with("floor")), "{:?}", plan.alloc.binding);
+    // Integer doses: the floor less than one dose per class of a (round_doses).
+    let classes_a = (0..t.len()).filter(|&c| in_a(c)).count() as f64;
+    let doses_a: f64 = (0..t.len()).filter(|&c| in_a(c)).map(|c| plan.alloc.doses[c] as f64).sum();
+    assert!(doses_a >= floor * size_a - classes_a, "{doses_a}");
+    // Every realization: each class of a gets at least min(LP doses, its
+    // accepting members) — the uptake-limited floor — within the budget.
+    for r in 0..20 {
+        let (seq, d, accepts) = lp_doses(&l, &plan, 3, r, budget);
+        let accepts = accepts.unwrap();
+        let given = &seq[..d as usize];
+        assert!(given.iter().map(|&v| l.nodes.cost_of(v)).sum::<f64>() <= budget + 1e-9);
+        let mut per = vec![0u64; t.len()];
+        let mut willing = vec![0u64; t.len()];
+        for &v in given {
+            per[plan.class_of[v as usize] as usize] += 1;
+        }
+        for v in 0..l.network.node_count() {
+            willing[plan.class_of[v] as usize] += u64::from(accepts[v]);
+        }
+        let mut floor_met = 0u64;
+        for c in (0..t.len()).filter(|&c| in_a(c)) {
+            let need = plan.alloc.doses[c].min(willing[c]);
+            assert!(per[c] >= need, "realization {r} class {c}: {} < {need}", per[c]);
+            floor_met += per[c];
+        }
+        let short: u64 = (0..t.len())
+            .filter(|&c| in_a(c))
+            .map(|c| plan.alloc.doses[c].saturating_sub(willing[c]))
+            .sum();
+        assert!(
+            floor_met as f64 >= floor * size_a - classes_a - short as f64,
+            "realization {r}: {floor_met}"
+        );
+    }
+}
+
+#[test]
+fn network_lp_with_unit_costs_takes_highest_k_k_minus_1_classes_first() {
+    // Source: with unit costs and no limits the LP is the fractional knapsack
+    // by k(k−1) (Dantzig 1957), i.e. whole degree classes from the top
+    // (Callaway et al. 2000 targeting): the same class structure as the
+    // registry's budget-free lp order.
+    let l = karate();
+    let mut cfg = ImmunizeConfig::new(Budget::Amount(6.0), 0.5);
+    cfg.rules = vec!["lp".into()];
+    cfg.runs = 4;
+    let s = rank_network(&l, &cfg, &spreadplan::progress::Silent).unwrap();
+    let deg = |id: &str| {
+        let v = (0..l.nodes.len() as u32).find(|&v| l.nodes.id(v) == id).unwrap();
+        l.network.degree(v) as u64
+    };
+    let got: Vec<u64> = s.allocation.iter().map(|a| deg(&a.id)).collect();
+    assert_eq!(got.len(), 6);
+    assert!(got.windows(2).all(|w| w[0] * (w[0] - 1) >= w[1] * (w[1] - 1)), "{got:?}");
+    let old = order(&l.network, Rule::Lp);
+    let mut want: Vec<u64> = old[..6].iter().map(|&v| l.network.degree(v) as u64).collect();
+    let mut got_sorted = got.clone();
+    want.sort_unstable();
+    got_sorted.sort_unstable();
+    assert_eq!(got_sorted, want);
+    let lp = &s.rules[0].extra["lp"];
+    assert_eq!(lp["doses"], serde_json::json!(6));
+    assert!(lp["binding"].as_array().unwrap().iter().any(|b| b == "budget"));
+}
+
+#[test]
+fn cli_group_limits_reach_the_lp_and_bad_ones_exit_2() {
+    let dir = common::tempdir("imm-lp");
+    let f = dir.join("e.csv");
+    std::fs::write(&f, "a,b\nb,c\nc,a\nc,d\nd,e\ne,c\n").unwrap();
+    let nt = dir.join("n.csv");
+    std::fs::write(&nt, "id,group\na,x\nb,x\nc,y\nd,y\ne,y\n").unwrap();
+    let run = |limits: &str| {
+        common::spreadplan(&[
+            "immunize",
+            "--network",
+            f.to_str().unwrap(),
+            "--nodes",
+            nt.to_str().unwrap(),
+            "--budget",
+            "1",
+            "--transmissibility",
+            "0.9",
+            "--runs",
+            "4",
+            "--format",
+            "json",
+            "--rules",
+            "lp",
+            "--group-limits",
+            limits,
+            "--target-r-eff",
+            "0.5",
+        ])
+    };
+    let out = run("x>>0.5");
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("x>>0.5"));
+    assert_eq!(run("nogroup>=0.5").status.code(), Some(2));
+    // Floor x >= 0.5 of 2 people: the one dose goes to group x, not to c.
+    let out = run("x>=0.5");
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let a = v["rules"][0]["allocation"].as_array().unwrap();
+    assert!(a == &[serde_json::json!("a")] || a == &[serde_json::json!("b")], "{a:?}");
+    assert!(v["rules"][0]["lp"]["binding"].to_string().contains("floor"));
+}

@@ -82,6 +82,11 @@ pub(crate) fn run(args: Args) -> anyhow::Result<()> {
     cfg.runs = args.run.runs;
     cfg.seed = args.run.seed;
     cfg.ci_radius = args.ci_radius;
+    cfg.group_limits = args.group_limits.clone();
+    cfg.target_r_eff = args.target_r_eff;
+    if let Some(text) = &cfg.group_limits {
+        spreadplan::immunize::lp_allocation::parse_group_limits(text)?;
+    }
     // Fail on bad parameters before reading a large file.
     if !(0.0..=1.0).contains(&cfg.transmissibility) {
         anyhow::bail!(spreadplan::immunize::ImmunizeError::Transmissibility(cfg.transmissibility));

@@ -87,15 +87,29 @@ impl ClassTable {
 
     /// Classes (degree × group) of the people of a network who are not
     /// already immune, and the class of each node (`u32::MAX` for immune
-    /// people). A class's cost and uptake are its members' means.
+    /// people). A person's degree is the *residual* degree: contacts with
+    /// people who are not immune (immune people are absent from the start,
+    /// as the evaluator treats them). A class's cost and uptake are its
+    /// members' means; N⟨k⟩ is the residual degree sum, so
+    /// [`ClassTable::r_eff`] is the configuration-model r_eff of the
+    /// residual network.
     pub fn from_network(net: &Network, nodes: &NodeTable) -> (Self, Vec<u32>) {
         let n = net.node_count();
         let group_of = |v: u32| nodes.groups.as_ref().map(|g| g.of[v as usize]);
+        let residual: Vec<u32> = (0..n as u32)
+            .map(|v| {
+                if nodes.is_immune(v) {
+                    0
+                } else {
+                    net.neighbors(v).iter().filter(|&&u| !nodes.is_immune(u)).count() as u32
+                }
+            })
+            .collect();
         let mut key_of: BTreeMap<(u32, Option<u32>), usize> = BTreeMap::new();
         for v in 0..n as u32 {
             if !nodes.is_immune(v) {
                 let len = key_of.len();
-                key_of.entry((net.degree(v) as u32, group_of(v))).or_insert(len);
+                key_of.entry((residual[v as usize], group_of(v))).or_insert(len);
             }
         }
         // Renumber classes in key order.
@@ -107,11 +121,11 @@ impl ClassTable {
         let mut class_of = vec![u32::MAX; n];
         let mut total_degree = 0.0;
         for v in 0..n as u32 {
-            total_degree += net.degree(v) as f64;
+            total_degree += f64::from(residual[v as usize]);
             if nodes.is_immune(v) {
                 continue;
             }
-            let c = index[&(net.degree(v) as u32, group_of(v))];
+            let c = index[&(residual[v as usize], group_of(v))];
             class_of[v as usize] = c as u32;
             count[c] += 1.0;
             cost[c] += nodes.cost_of(v);
@@ -454,6 +468,21 @@ pub fn lp_removal_order(
     doses: &[u64],
     rng: &mut ChaCha8Rng,
 ) -> Vec<u32> {
+    realize(table, class_of, doses, None, &vec![false; table.len()], rng)
+}
+
+/// The removal order behind [`lp_removal_order`] and [`NetworkLpPlan::order`].
+/// With `accepts`, class c's section offers shuffled members until
+/// `doses[c]` of them accept (refusers stay listed; the evaluator skips
+/// them). Classes flagged in `last` (groups with a cap) close the order.
+fn realize(
+    table: &ClassTable,
+    class_of: &[u32],
+    doses: &[u64],
+    accepts: Option<&[bool]>,
+    last: &[bool],
+    rng: &mut ChaCha8Rng,
+) -> Vec<u32> {
     let m = table.len();
     let mut members: Vec<Vec<u32>> = vec![Vec::new(); m];
     for (v, &c) in class_of.iter().enumerate() {
@@ -470,16 +499,84 @@ pub fn lp_removal_order(
     for &c in &order {
         crate::rng::shuffle(rng, &mut members[c]);
     }
+    // Length of class c's first section: enough members for doses[c] acceptances.
+    let take: Vec<usize> = (0..m)
+        .map(|c| {
+            let want = doses[c] as usize;
+            match accepts {
+                None => want.min(members[c].len()),
+                Some(acc) => {
+                    let mut got = 0;
+                    let mut len = 0;
+                    while got < want && len < members[c].len() {
+                        got += usize::from(acc[members[c][len] as usize]);
+                        len += 1;
+                    }
+                    len
+                }
+            }
+        })
+        .collect();
     let mut out = Vec::with_capacity(class_of.len());
     for &c in &order {
-        let take = (doses[c] as usize).min(members[c].len());
-        out.extend_from_slice(&members[c][..take]);
+        out.extend_from_slice(&members[c][..take[c]]);
     }
-    for &c in &order {
-        let take = (doses[c] as usize).min(members[c].len());
-        out.extend_from_slice(&members[c][take..]);
+    for pass_last in [false, true] {
+        for &c in order.iter().filter(|&&c| last[c] == pass_last) {
+            out.extend_from_slice(&members[c][take[c]..]);
+        }
     }
     out
+}
+
+/// The network-mode `lp` rule solved once for a study: classes (residual
+/// degree × group) of a network and node table, the LP optimum for a
+/// budget in cost units under group limits, and the per-realization
+/// removal orders that realize it by vaccinating uniformly at random within
+/// each class (Callaway et al. 2000 degree-class targeting; the LP is exact
+/// for the configuration model, see the module docs).
+#[derive(Clone, Debug)]
+pub struct NetworkLpPlan {
+    /// The classes.
+    pub table: ClassTable,
+    /// Class of each node (`u32::MAX` for immune people).
+    pub class_of: Vec<u32>,
+    /// The LP's fractions and integer doses per class.
+    pub alloc: LpAllocation,
+    /// Classes in a capped group: their undosed members close the order.
+    last: Vec<bool>,
+}
+
+impl NetworkLpPlan {
+    /// Solves the class LP of `net` and `nodes` for `budget` (cost units;
+    /// doses with unit costs) under `limits`.
+    pub fn new(
+        net: &Network,
+        nodes: &NodeTable,
+        budget: f64,
+        limits: &[GroupLimit],
+    ) -> Result<Self, LpAllocError> {
+        let (table, class_of) = ClassTable::from_network(net, nodes);
+        let alloc = minimize_r_eff(&table, budget, limits)?;
+        let last = (0..table.len())
+            .map(|c| {
+                let g = table.group_name(c);
+                limits.iter().any(|l| {
+                    matches!(l.cmp, Cmp::Le | Cmp::Eq) && g.as_deref() == Some(l.group.as_str())
+                })
+            })
+            .collect();
+        Ok(NetworkLpPlan { table, class_of, alloc, last })
+    }
+
+    /// The removal order of one realization: for each class in order of
+    /// k(k−1)/cost, members shuffled by `rng` are offered until the class's
+    /// LP doses are accepted (`accepts[v]`: v accepts in this realization,
+    /// the evaluator's uptake coins; `None` = everybody accepts); then the
+    /// other candidates, members of capped groups last.
+    pub fn order(&self, accepts: Option<&[bool]>, rng: &mut ChaCha8Rng) -> Vec<u32> {
+        realize(&self.table, &self.class_of, &self.alloc.doses, accepts, &self.last, rng)
+    }
 }
 
 /// The `lp` rule of the network-mode registry ([`super::removal_order`]),
@@ -490,7 +587,8 @@ pub fn lp_removal_order(
 /// drawn uniformly at random. This order (classes by k(k−1) descending,
 /// members shuffled by `rng` per realization; degrees 0 and 1, of weight 0,
 /// last) realizes that optimum for each prefix. With costs, uptake or group
-/// limits use [`network_lp_order`], which solves the LP at the budget.
+/// limits use [`NetworkLpPlan`] (as `rank_network` does), which solves the
+/// LP at the budget.
 pub fn lp_order_present(present: &super::Present<'_>, rng: &mut ChaCha8Rng) -> Vec<u32> {
     let mut classes: BTreeMap<u64, Vec<u32>> = BTreeMap::new();
     for v in present.candidates() {
@@ -507,7 +605,8 @@ pub fn lp_order_present(present: &super::Present<'_>, rng: &mut ChaCha8Rng) -> V
 
 /// Network mode in one call: classes from `net` and `nodes`, the LP for
 /// `budget` (cost units) under `limits`, and the removal order of one
-/// realization drawn from `rng`.
+/// realization drawn from `rng` (everybody accepting; see
+/// [`NetworkLpPlan::order`] for uptake).
 pub fn network_lp_order(
     net: &Network,
     nodes: &NodeTable,
@@ -515,9 +614,8 @@ pub fn network_lp_order(
     limits: &[GroupLimit],
     rng: &mut ChaCha8Rng,
 ) -> Result<(Vec<u32>, LpAllocation), LpAllocError> {
-    let (table, class_of) = ClassTable::from_network(net, nodes);
-    let alloc = minimize_r_eff(&table, budget, limits)?;
-    Ok((lp_removal_order(&table, &class_of, &alloc.doses, rng), alloc))
+    let plan = NetworkLpPlan::new(net, nodes, budget, limits)?;
+    Ok((plan.order(None, rng), plan.alloc))
 }
 
 #[cfg(test)]

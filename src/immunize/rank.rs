@@ -10,6 +10,9 @@ use serde::{Deserialize, Serialize};
 use serde_json::{json, Value};
 
 use super::evaluate::{self, DoseBudget, RealizationOutcome};
+use super::lp_allocation::{
+    least_cost_to_target, parse_group_limits, GroupLimit, LpAllocError, LpAllocation, NetworkLpPlan,
+};
 use super::{removal_order, Rule, RuleParams, NETWORK_RULES};
 use crate::network::load::Loaded;
 use crate::outcome::{AllocationRow, CurvePoint, Metric, Metrics, RuleOutcome, Study};
@@ -137,6 +140,16 @@ pub struct ImmunizeConfig {
     /// Collective Influence reinsertion step.
     #[serde(default = "default_dismantle")]
     pub dismantle_target: f64,
+    /// Group floors and caps for the `lp` rule, e.g.
+    /// `"care-homes>=0.9,school<=0.5"` (fractions of each group's people;
+    /// groups come from the node table).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub group_limits: Option<String>,
+    /// For the `lp` rule: also report the least cost (fewest doses with
+    /// unit costs) that brings the analytic configuration-model r_eff of
+    /// the network's classes to this value.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub target_r_eff: Option<f64>,
 }
 
 impl ImmunizeConfig {
@@ -153,6 +166,8 @@ impl ImmunizeConfig {
             ci_radius: default_ci_radius(),
             curve_points: default_curve_points(),
             dismantle_target: default_dismantle(),
+            group_limits: None,
+            target_r_eff: None,
         }
     }
 }
@@ -209,6 +224,9 @@ pub enum ImmunizeError {
     /// The percolation engine refused the input.
     #[error(transparent)]
     Percolation(#[from] crate::percolation::PercolationError),
+    /// The `lp` rule's group limits or class LP failed.
+    #[error(transparent)]
+    Lp(#[from] LpAllocError),
 }
 
 const METRICS3: [&str; 3] = ["giant_fraction", "mean_outbreak_fraction", "outbreak_probability"];
@@ -218,6 +236,7 @@ struct Resolved {
     rules: Vec<Rule>,
     budget: DoseBudget,
     nominal_doses: Option<u64>,
+    limits: Vec<GroupLimit>,
 }
 
 fn resolve(loaded: &Loaded, cfg: &ImmunizeConfig) -> Result<Resolved, ImmunizeError> {
@@ -248,6 +267,19 @@ fn resolve(loaded: &Loaded, cfg: &ImmunizeConfig) -> Result<Resolved, ImmunizeEr
             value: cfg.dismantle_target.to_string(),
         });
     }
+    if let Some(x) = cfg.target_r_eff {
+        if !(x.is_finite() && x >= 0.0) {
+            return Err(ImmunizeError::Parameter {
+                name: "target_r_eff",
+                need: "a non-negative number",
+                value: x.to_string(),
+            });
+        }
+    }
+    let limits = match &cfg.group_limits {
+        Some(text) => parse_group_limits(text)?,
+        None => Vec::new(),
+    };
     let mut rules = Vec::new();
     if cfg.rules.is_empty() {
         rules.extend(Rule::ALL);
@@ -275,7 +307,7 @@ fn resolve(loaded: &Loaded, cfg: &ImmunizeConfig) -> Result<Resolved, ImmunizeEr
         let d = d.round() as u64;
         (DoseBudget::Doses(d), Some(d))
     };
-    Ok(Resolved { rules, budget, nominal_doses: nominal })
+    Ok(Resolved { rules, budget, nominal_doses: nominal, limits })
 }
 
 fn est_json(e: &Estimate) -> Value {
@@ -349,10 +381,34 @@ pub fn rank_network(
             .collect()
     };
     progress.finish();
+    // The lp rule: the class LP at the study's budget (cost units; doses
+    // with unit costs), solved once; each realization draws its own
+    // within-class choice.
+    let lp_plan = if res.rules.contains(&Rule::Lp) {
+        let units = match res.budget {
+            DoseBudget::Doses(d) => d as f64,
+            DoseBudget::Cost(c) => c,
+        };
+        Some(NetworkLpPlan::new(net, nodes, units, &res.limits)?)
+    } else {
+        None
+    };
     let order_of = |i: usize, r: u64| -> Cow<'_, [u32]> {
-        match &statics[i] {
-            Some(o) => Cow::Borrowed(o.as_slice()),
-            None => {
+        match (&statics[i], &lp_plan) {
+            (Some(o), _) => Cow::Borrowed(o.as_slice()),
+            (None, Some(plan)) if res.rules[i] == Rule::Lp => {
+                // Offers within a class go on until its quota accepts: the
+                // evaluator's own uptake coins of realization r.
+                let accepts: Option<Vec<bool>> = nodes.uptake.as_ref().map(|up| {
+                    let key = rng::key(cfg.seed, Stage::Uptake, r);
+                    (0..n)
+                        .map(|v| rng::hit(rng::threshold(up[v]), rng::hash(key, v as u64)))
+                        .collect()
+                });
+                let mut rng = rng::stream(cfg.seed, Stage::Rule, r);
+                Cow::Owned(plan.order(accepts.as_deref(), &mut rng))
+            }
+            (None, _) => {
                 let mut rng = rng::stream(cfg.seed, Stage::Rule, r);
                 Cow::Owned(removal_order(net, res.rules[i], &params, absent_slice, &mut rng))
             }
@@ -471,6 +527,15 @@ pub fn rank_network(
         if nodes.cost.is_some() {
             extra.insert("cost".into(), est_json(&stats::mean_ci(&col(i, &|o| o.cost))));
         }
+        if let (Rule::Lp, Some(plan)) = (rule, &lp_plan) {
+            extra.insert("lp".into(), lp_json(plan, &plan.alloc, t, cfg.efficacy));
+            if let Some(target) = cfg.target_r_eff {
+                extra.insert(
+                    "lp_target".into(),
+                    lp_target_json(plan, target, t, cfg.efficacy, &res.limits)?,
+                );
+            }
+        }
         let objective = match cfg.objective.as_str() {
             "r_eff" => r_eff,
             "doses_to_contain" => d.contain.map_or(f64::INFINITY, |k| k as f64),
@@ -566,6 +631,62 @@ pub fn rank_network(
     Ok(study)
 }
 
+/// The LP's analytic side for a rule entry: optimum, binding constraints,
+/// doses per class.
+fn lp_json(plan: &NetworkLpPlan, a: &LpAllocation, t: f64, e: f64) -> Value {
+    let table = &plan.table;
+    json!({
+        "method": "class LP over residual degree × group (configuration-model r_eff, linear \
+                   in the class fractions; fractional knapsack by k(k−1)/cost when only the \
+                   budget binds); realized by vaccinating uniformly at random within each class",
+        "r_eff_optimum_analytic": table.r_eff(&a.fractions, t, e),
+        "r_eff_unvaccinated_analytic": table.r_eff(&vec![0.0; table.len()], t, e),
+        "objective_reduction": a.objective,
+        "spend": a.spend,
+        "binding": a.binding,
+        "at_uptake_ceiling": a.at_ceiling,
+        "doses": a.doses.iter().sum::<u64>(),
+        "doses_per_class": (0..table.len())
+            .filter(|&c| a.doses[c] > 0)
+            .map(|c| json!({
+                "class": table.label(c),
+                "group": table.group_name(c),
+                "people": table.count[c],
+                "fraction": a.fractions[c],
+                "doses": a.doses[c],
+            }))
+            .collect::<Vec<_>>(),
+    })
+}
+
+/// Least cost to reach `target` in the analytic configuration model of the
+/// network's classes (the LP's dual question).
+fn lp_target_json(
+    plan: &NetworkLpPlan,
+    target: f64,
+    t: f64,
+    e: f64,
+    limits: &[GroupLimit],
+) -> Result<Value, ImmunizeError> {
+    let label = "analytic configuration-model estimate (degree classes of this network, not \
+                 Monte Carlo)";
+    Ok(match least_cost_to_target(&plan.table, target, t, e, limits) {
+        Ok(a) => {
+            let mut j = lp_json(plan, &a, t, e);
+            j["estimate"] = json!(label);
+            j["target_r_eff"] = json!(target);
+            j["cost"] = json!(a.spend);
+            j
+        }
+        Err(LpAllocError::Lp(crate::lp::LpError::Infeasible)) => json!({
+            "estimate": label,
+            "target_r_eff": target,
+            "result": "not reachable within uptake, caps and population",
+        }),
+        Err(x) => return Err(x.into()),
+    })
+}
+
 fn crit(radius: f64) -> Metric {
     if radius > 0.0 {
         Metric::Number(1.0 / radius)
@@ -603,13 +724,24 @@ fn notes(cfg: &ImmunizeConfig, nodes: &crate::network::NodeTable, large: u32) ->
         "robustness: R = (1/N) Σ_Q s(Q) over the rule's whole dose sequence, s(Q) the largest \
          transmission component fraction after Q doses (Schneider et al. 2011)"
             .to_owned(),
-        "random and acquaintance draw a fresh order in every realization; their allocation, \
+        "random, acquaintance and lp draw a fresh order in every realization; their allocation, \
          r_eff and doses_to_contain are those of realization 0"
             .to_owned(),
         "ties: degree, degree-adaptive, corehd and coreness break ties by the lower node index \
          (first appearance in the input)"
             .to_owned(),
     ];
+    if cfg.rules.is_empty() || cfg.rules.iter().any(|r| r.trim() == "lp") {
+        v.push(
+            "lp: the class LP (residual degree × group; costs and uptake are class means) solved \
+             at the budget under the group limits, exact for the configuration model (rank-one \
+             next-generation matrix); each class's doses go to members drawn uniformly at \
+             random, offered until the class's quota accepts; leftover budget goes down the \
+             rest of the order, members of capped groups last; contact weights are not in the \
+             LP"
+            .into(),
+        );
+    }
     if nodes.immune.is_some() {
         v.push("people listed as immune are absent from the start and are never dosed".into());
     }
