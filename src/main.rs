@@ -17,11 +17,30 @@ fn main() -> ExitCode {
             }
             #[allow(clippy::print_stderr)]
             {
-                eprintln!("error: {err:#}");
+                eprintln!("error: {}", one_line(&err));
             }
             ExitCode::from(2)
         }
     }
+}
+
+/// The error and its causes on one line, skipping a cause whose text the
+/// message before it already ends with (typed errors that show their
+/// source in their own message).
+fn one_line(err: &anyhow::Error) -> String {
+    let mut msg = String::new();
+    let mut last = String::new();
+    for cause in err.chain() {
+        let text = cause.to_string();
+        if !last.ends_with(&text) {
+            if !msg.is_empty() {
+                msg.push_str(": ");
+            }
+            msg.push_str(&text);
+        }
+        last = text;
+    }
+    msg
 }
 
 fn is_broken_pipe(err: &anyhow::Error) -> bool {
