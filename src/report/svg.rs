@@ -6,6 +6,7 @@
 //! [`super::html`]. Nothing here computes a new estimate: every mark is a
 //! value read from the study.
 
+use plotters::coord::ranged1d::ValueFormatter;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
@@ -328,35 +329,9 @@ fn draw_lines(root: &DrawingArea<SVGBackend<'_>, Shift>, c: &LineChart) -> Res<(
     if c.log_log {
         let mut chart =
             b.build_cartesian_2d((x0..x1).log_scale(), (y0..y1).log_scale()).map_err(err)?;
-        chart
-            .configure_mesh()
-            .light_line_style(FAINT)
-            .max_light_lines(2)
-            .bold_line_style(GRID)
-            .x_desc(c.x_label.as_str())
-            .y_desc(c.y_label.as_str())
-            .x_label_formatter(&|x| tick(*x))
-            .y_label_formatter(&|y| tick(*y))
-            .label_style(text_style(12))
-            .axis_desc_style(text_style(13))
-            .draw()
-            .map_err(err)?;
         plot_series(&mut chart, c, (x0, x1), (y0, y1))
     } else {
         let mut chart = b.build_cartesian_2d(x0..x1, y0..y1).map_err(err)?;
-        chart
-            .configure_mesh()
-            .light_line_style(FAINT)
-            .max_light_lines(2)
-            .bold_line_style(GRID)
-            .x_desc(c.x_label.as_str())
-            .y_desc(c.y_label.as_str())
-            .x_label_formatter(&|x| tick(*x))
-            .y_label_formatter(&|y| tick(*y))
-            .label_style(text_style(12))
-            .axis_desc_style(text_style(13))
-            .draw()
-            .map_err(err)?;
         plot_series(&mut chart, c, (x0, x1), (y0, y1))
     }
 }
@@ -368,9 +343,23 @@ fn plot_series<'a, X, Y>(
     (y0, y1): (f64, f64),
 ) -> Res<()>
 where
-    X: Ranged<ValueType = f64>,
-    Y: Ranged<ValueType = f64>,
+    X: Ranged<ValueType = f64> + ValueFormatter<f64>,
+    Y: Ranged<ValueType = f64> + ValueFormatter<f64>,
 {
+    // The mesh (grid, ticks, axis labels) is the same on linear and log axes.
+    chart
+        .configure_mesh()
+        .light_line_style(FAINT)
+        .max_light_lines(2)
+        .bold_line_style(GRID)
+        .x_desc(c.x_label.as_str())
+        .y_desc(c.y_label.as_str())
+        .x_label_formatter(&|x| tick(*x))
+        .y_label_formatter(&|y| tick(*y))
+        .label_style(text_style(12))
+        .axis_desc_style(text_style(13))
+        .draw()
+        .map_err(err)?;
     let keep = |x: f64, y: f64| finite(x) && finite(y) && (!c.log_log || (x > 0.0 && y > 0.0));
     // Bands first, so every line is drawn over every band.
     for s in &c.series {
