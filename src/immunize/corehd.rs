@@ -81,18 +81,8 @@ fn core_phase(present: &Present<'_>) -> (Vec<u32>, Vec<bool>) {
         in_core[v as usize] = false;
         removed[v as usize] = true;
         order.push(v);
-        for &u in net.neighbors(v) {
-            let ui = u as usize;
-            if in_core[ui] {
-                cdeg[ui] -= 1;
-                if cdeg[ui] < 2 {
-                    in_core[ui] = false;
-                    stack.push(u);
-                } else {
-                    heap.push(key(cdeg[ui], u));
-                }
-            }
-        }
+        // Removing v lowers its core neighbours exactly as peeling it would.
+        stack.push(v);
         peel(&mut stack, &mut in_core, &mut cdeg, &mut touched);
         for u in touched.drain(..) {
             if in_core[u as usize] {
