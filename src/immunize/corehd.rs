@@ -137,9 +137,9 @@ pub(crate) fn break_forest(
         removed[c as usize] = true;
         order.push(c);
     }
-    for v in 0..n {
-        if !removed[v] {
-            removed[v] = true;
+    for (v, r) in removed.iter_mut().enumerate() {
+        if !*r {
+            *r = true;
             order.push(v as u32);
         }
     }
