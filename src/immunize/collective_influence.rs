@@ -2,16 +2,36 @@
 //! 524:65), with the reinsertion step of Morone, Min, Bo, Mari & Makse
 //! (2016, Sci Rep 6:30062).
 //!
-//! Removal phase: `CI_ℓ(i) = (k_i − 1) Σ_{j ∈ ∂Ball(i, ℓ)} (k_j − 1)`,
-//! with `k` the current degrees and `∂Ball(i, ℓ)` the nodes at shortest-path
-//! distance exactly ℓ from i in the current network. The node of largest
-//! CI is removed (ties: higher current degree, then lower index — so once
-//! every CI is 0 the order continues by degree). Only nodes within ℓ + 1 of
-//! it can change: those within ℓ are recomputed, and those at exactly
-//! ℓ + 1 are updated in place (their ball is unchanged; each neighbour j of
-//! the removed node at distance ℓ from them lowers their sum by one), found
-//! by one ℓ-search from each neighbour; a lazy max-heap skips stale
-//! entries. O(N log N) overall on sparse networks of bounded degree.
+//! Removal phase: `CI_ℓ(i) = (k_i − 1)₊ Σ_{j ∈ ∂Ball(i, ℓ)} (k_j − 1)₊`,
+//! with `k` the current degrees, `(x)₊ = max(x, 0)` and `∂Ball(i, ℓ)` the
+//! nodes at shortest-path distance exactly ℓ from i in the current
+//! network. The node of largest CI is removed (ties: higher current
+//! degree, then lower index — so once every CI is 0 the order continues by
+//! degree). A lazy max-heap holds the keys: a key that falls leaves the
+//! old entry, which is refreshed when it surfaces; a key that rises pushes
+//! a new entry.
+//!
+//! Update after removing v (degree `k_v`), by the distance d = d(u, v)
+//! before the removal (Morone & Makse update only the nodes within ℓ + 1;
+//! the arithmetic below is exact, checked against full recomputation by
+//! the tests):
+//! - d = 1, and 2 ≤ d ≤ ℓ − 1: degrees or the ball change; CI is
+//!   recomputed by an ℓ-search (for ℓ ≥ 3 it can rise).
+//! - d = ℓ (ℓ ≥ 2): no path of length ≤ ℓ from u passes through v except
+//!   the one ending there, so the boundary only loses v:
+//!   `CI(u) −= (k_u − 1)₊ (k_v − 1)₊`.
+//! - d = ℓ and d = ℓ + 1: each neighbour j of v at distance ℓ from u with
+//!   old degree ≥ 2 lowers u's sum by one: `CI(u) −= (k_u − 1)₊`.
+//! - d ≥ ℓ + 2: unchanged.
+//!
+//! The pairs (j, u) with d(j, u) = ℓ come from the ℓ-search from each
+//! neighbour j with v already removed — the same search that recomputes
+//! CI(j) (a path from j through v has length ≥ ℓ + 1 to any u with d ≥ ℓ,
+//! so removing v does not change those distances). So a removal costs one
+//! ℓ-search per neighbour, plus one from v when ℓ ≥ 2 (and one per node at
+//! 2 ≤ d ≤ ℓ − 1). For ℓ ≤ 2 no CI can rise (the boundary only shrinks and
+//! degrees only fall), so once the largest CI is 0 the rest of the order
+//! is adaptive degree, taken from a bucket queue.
 //!
 //! Reinsertion: let P be the shortest prefix of the removal order after
 //! which the largest component has at most `G* = max(1, ⌊target·N⌋)`
@@ -27,96 +47,146 @@
 use std::cmp::Reverse;
 use std::collections::BinaryHeap;
 
+use rayon::prelude::*;
+
+use super::degree::LazyBuckets;
 use super::Present;
 use crate::network::Network;
 use crate::percolation::UnionFind;
 
-struct Ball {
-    stamp: Vec<u32>,
-    dist: Vec<u32>,
+/// `mark` value of a removed (or absent) node: never "unvisited".
+const DEAD: u32 = u32::MAX;
+
+/// Breadth-first ball searches over the nodes still present.
+struct Searcher {
+    /// `DEAD`, or the stamp of the last search that reached the node
+    /// (a node is unvisited by the current search iff `mark < now`).
+    mark: Vec<u32>,
     now: u32,
+    /// The nodes reached, in distance order.
     queue: Vec<u32>,
+    /// `layer[d]`: start in `queue` of the nodes at distance d, for
+    /// d = 0..=radius + 1 (the last entry is `queue.len()`).
+    layer: Vec<usize>,
 }
 
-impl Ball {
-    fn new(n: usize) -> Self {
-        Ball { stamp: vec![0; n], dist: vec![0; n], now: 0, queue: Vec::new() }
+impl Searcher {
+    fn new(alive: &[bool]) -> Self {
+        let mark = alive.iter().map(|&a| if a { 0 } else { DEAD }).collect();
+        Searcher { mark, now: 0, queue: Vec::new(), layer: Vec::new() }
     }
 
-    /// BFS from `s` over alive nodes to depth `radius`; `queue` holds the
-    /// visited nodes with `dist` set.
-    fn search(&mut self, net: &Network, alive: &[bool], s: u32, radius: u32) {
-        self.now = self.now.wrapping_add(1);
-        if self.now == 0 {
-            self.stamp.fill(0);
+    fn kill(&mut self, v: u32) {
+        self.mark[v as usize] = DEAD;
+    }
+
+    fn is_alive(&self, v: u32) -> bool {
+        self.mark[v as usize] != DEAD
+    }
+
+    /// Nodes within `radius` of the present node `s`; returns the start
+    /// in `queue` of those at distance exactly `radius`.
+    fn search(&mut self, net: &Network, s: u32, radius: u32) -> usize {
+        self.now += 1;
+        if self.now == DEAD {
+            for m in self.mark.iter_mut().filter(|m| **m != DEAD) {
+                *m = 0;
+            }
             self.now = 1;
         }
+        let now = self.now;
         self.queue.clear();
+        self.layer.clear();
         self.queue.push(s);
-        self.stamp[s as usize] = self.now;
-        self.dist[s as usize] = 0;
-        let mut i = 0;
-        while i < self.queue.len() {
-            let v = self.queue[i];
-            i += 1;
-            let d = self.dist[v as usize];
-            if d == radius {
-                continue;
-            }
-            for &u in net.neighbors(v) {
-                let ui = u as usize;
-                if alive[ui] && self.stamp[ui] != self.now {
-                    self.stamp[ui] = self.now;
-                    self.dist[ui] = d + 1;
-                    self.queue.push(u);
+        self.mark[s as usize] = now;
+        let (mut start, mut end) = (0, 1);
+        self.layer.push(0);
+        for _ in 0..radius {
+            for i in start..end {
+                let v = self.queue[i];
+                for &u in net.neighbors(v) {
+                    let m = &mut self.mark[u as usize];
+                    if *m < now {
+                        *m = now;
+                        self.queue.push(u);
+                    }
                 }
             }
+            start = end;
+            end = self.queue.len();
+            self.layer.push(start);
         }
+        self.layer.push(end);
+        start
+    }
+
+    /// `CI_radius(s)` in the current network.
+    fn ci(&mut self, net: &Network, deg: &[u32], s: u32, radius: u32) -> u64 {
+        let ks = deg[s as usize] as u64;
+        if ks <= 1 {
+            return 0;
+        }
+        let b = self.search(net, s, radius);
+        let sum: u64 =
+            self.queue[b..].iter().map(|&j| (deg[j as usize] as u64).saturating_sub(1)).sum();
+        (ks - 1) * sum
     }
 }
 
-fn ci(net: &Network, alive: &[bool], deg: &[u32], ball: &mut Ball, i: u32, radius: u32) -> u64 {
-    let ki = deg[i as usize] as u64;
-    if ki <= 1 {
-        return 0;
-    }
-    ball.search(net, alive, i, radius);
-    let mut s = 0u64;
-    for &j in &ball.queue {
-        if ball.dist[j as usize] == radius {
-            s += (deg[j as usize] as u64).saturating_sub(1);
-        }
-    }
-    (ki - 1) * s
+/// `CI_radius` of every node (0 for absent ones), computed in parallel
+/// over blocks of nodes (the values do not depend on the split).
+fn initial_values(present: &Present<'_>, radius: u32) -> Vec<u64> {
+    let n = present.alive.len();
+    let block = (n / (4 * rayon::current_num_threads().max(1))).max(4096);
+    let blocks: Vec<Vec<u64>> = (0..n.div_ceil(block))
+        .into_par_iter()
+        .map(|b| {
+            let mut s = Searcher::new(&present.alive);
+            (b * block..((b + 1) * block).min(n))
+                .map(|v| {
+                    if present.alive[v] {
+                        s.ci(present.net, &present.degree, v as u32, radius)
+                    } else {
+                        0
+                    }
+                })
+                .collect()
+        })
+        .collect();
+    blocks.concat()
 }
 
 /// The Collective Influence order with reinsertion (see the module doc).
 ///
 /// `radius` is ℓ; `target` the dismantled giant size as a fraction of N.
 pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f64) -> Vec<u32> {
+    let order = removal_phase(present, radius);
+    reinsert(present, order, target)
+}
+
+/// The removal phase (module doc): every present node, in CI order.
+fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     let net = present.net;
     let n = present.alive.len();
-    let mut alive = present.alive.clone();
     let mut deg = present.degree.clone();
-    let mut ball = Ball::new(n);
-    let mut near = Ball::new(n);
-    let mut val = vec![0u64; n];
+    let mut val = initial_values(present, radius);
+    let mut s = Searcher::new(&present.alive);
     type Key = (u64, u32, Reverse<u32>);
-    let mut heap: BinaryHeap<Key> = BinaryHeap::new();
+    let candidates = present.candidates();
+    let mut heap: BinaryHeap<Key> =
+        candidates.iter().map(|&v| (val[v as usize], deg[v as usize], Reverse(v))).collect();
     // `bound[v]`: key of v's heap entry that is at least v's current key.
-    // A key that falls pushes nothing (the old entry is re-pushed with the
-    // current key when it surfaces); a key that rises pushes a new entry.
-    let mut bound: Vec<(u64, u32)> = vec![(0, 0); n];
-    for v in present.candidates() {
-        val[v as usize] = ci(net, &alive, &deg, &mut ball, v, radius);
-        bound[v as usize] = (val[v as usize], deg[v as usize]);
-        heap.push((val[v as usize], deg[v as usize], Reverse(v)));
-    }
-    let mut order = Vec::with_capacity(heap.len());
+    let mut bound: Vec<(u64, u32)> = (0..n).map(|v| (val[v], deg[v])).collect();
+    let mut order = Vec::with_capacity(candidates.len());
+    drop(candidates);
+    // Nodes at 2 ≤ d ≤ ℓ − 1 and at d = ℓ from the removed node.
     let mut inner: Vec<u32> = Vec::new();
+    let mut shell: Vec<u32> = Vec::new();
+    // Recomputed CI of the removed node's neighbours.
+    let mut fresh: Vec<(u32, u64)> = Vec::new();
     while let Some((c, d, Reverse(v))) = heap.pop() {
         let vi = v as usize;
-        if !alive[vi] {
+        if !s.is_alive(v) {
             continue;
         }
         if val[vi] != c || deg[vi] != d {
@@ -126,55 +196,95 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
             }
             continue;
         }
-        // Distances from v before its removal, to depth ℓ + 1.
-        near.search(net, &alive, v, radius + 1);
+        if c == 0 && radius <= 2 {
+            // Every CI is 0 and stays 0: the rest is adaptive degree
+            // (highest degree, then lower index — the heap's tie rule).
+            drop(heap);
+            finish_by_degree(net, &mut s, &mut deg, &mut order);
+            break;
+        }
+        let kv = deg[vi];
+        order.push(v);
+        if kv == 0 {
+            s.kill(v);
+            continue;
+        }
         inner.clear();
-        for &u in &near.queue {
-            if u == v {
+        shell.clear();
+        let reach = if kv >= 2 { radius } else { radius.saturating_sub(1) };
+        if reach >= 2 {
+            s.search(net, v, reach);
+            let l = &s.layer;
+            inner.extend_from_slice(&s.queue[l[2]..l[radius.min(reach + 1) as usize]]);
+            if reach == radius {
+                shell.extend_from_slice(&s.queue[l[radius as usize]..l[radius as usize + 1]]);
+            }
+        }
+        s.kill(v);
+        for &j in net.neighbors(v) {
+            if s.is_alive(j) {
+                deg[j as usize] -= 1;
+            }
+        }
+        let tv = (kv - 1) as u64;
+        for &u in &shell {
+            val[u as usize] -= (deg[u as usize] as u64).saturating_sub(1) * tv;
+        }
+        fresh.clear();
+        for &j in net.neighbors(v) {
+            if !s.is_alive(j) {
                 continue;
             }
-            if near.dist[u as usize] <= radius || radius == 0 {
-                inner.push(u);
+            let kj = deg[j as usize] as u64;
+            if kj == 0 {
+                fresh.push((j, 0));
+                continue;
             }
+            // Old degree ≥ 2: j's boundary term drops by one for every u at
+            // distance ℓ from j. Values of nodes within ℓ − 1 of v (the
+            // neighbours and `inner`) are overwritten below, so the
+            // subtraction may wrap for them.
+            let b = s.search(net, j, radius);
+            let mut sum = 0u64;
+            for &u in &s.queue[b..] {
+                let t = (deg[u as usize] as u64).saturating_sub(1);
+                sum += t;
+                val[u as usize] = val[u as usize].wrapping_sub(t);
+            }
+            fresh.push((j, kj.saturating_sub(1) * sum));
         }
-        alive[vi] = false;
-        order.push(v);
-        if radius > 0 {
-            // A node u at distance exactly ℓ + 1 keeps its ball; only the
-            // boundary terms (k_j − 1) of v's neighbours j at distance ℓ
-            // from u drop by one. Count those j by an ℓ-search from each j
-            // (paths avoiding v, since v is at distance ℓ + 1 from u).
-            for &j in net.neighbors(v) {
-                if !alive[j as usize] || deg[j as usize] < 2 {
-                    continue;
-                }
-                ball.search(net, &alive, j, radius);
-                for &u in &ball.queue {
-                    let ui = u as usize;
-                    if ball.dist[ui] == radius
-                        && near.stamp[ui] == near.now
-                        && near.dist[ui] == radius + 1
-                    {
-                        val[ui] -= (deg[ui] as u64).saturating_sub(1);
-                    }
-                }
-            }
-        }
-        for &u in net.neighbors(v) {
-            if alive[u as usize] {
-                deg[u as usize] -= 1;
-            }
+        for &(j, x) in &fresh {
+            val[j as usize] = x;
         }
         for &u in &inner {
-            let ui = u as usize;
-            val[ui] = ci(net, &alive, &deg, &mut ball, u, radius);
-            if (val[ui], deg[ui]) > bound[ui] {
-                bound[ui] = (val[ui], deg[ui]);
-                heap.push((val[ui], deg[ui], Reverse(u)));
+            val[u as usize] = s.ci(net, &deg, u, radius);
+        }
+        for u in fresh.iter().map(|&(j, _)| j).chain(inner.iter().copied()) {
+            let key = (val[u as usize], deg[u as usize]);
+            if key > bound[u as usize] {
+                bound[u as usize] = key;
+                heap.push((key.0, key.1, Reverse(u)));
             }
         }
     }
-    reinsert(present, order, target)
+    order
+}
+
+/// Appends the present nodes of `s` in adaptive-degree order (highest
+/// current degree first, ties by lower index).
+fn finish_by_degree(net: &Network, s: &mut Searcher, deg: &mut [u32], order: &mut Vec<u32>) {
+    let rest: Vec<(u32, u32)> =
+        (0..deg.len() as u32).filter(|&v| s.is_alive(v)).map(|v| (v, deg[v as usize])).collect();
+    let mut queue = LazyBuckets::new(rest.into_iter());
+    while let Some(v) = queue.pop(|v| deg[v as usize]) {
+        s.kill(v);
+        order.push(v);
+        for &u in net.neighbors(v) {
+            if s.is_alive(u) {
+                deg[u as usize] -= 1;
+            }
+        }
+    }
 }
 
 /// The reinsertion step (module doc) applied to a complete removal order.
@@ -261,36 +371,68 @@ fn reinsert(present: &Present<'_>, order: Vec<u32>, target: f64) -> Vec<u32> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::network::generate::{barabasi_albert, gnm};
     use crate::network::WeightMerge;
+
+    /// CI_radius(i) by a plain BFS over `alive` (independent of `Searcher`).
+    fn plain_ci(net: &Network, alive: &[bool], deg: &[u32], i: u32, radius: u32) -> u64 {
+        let ki = deg[i as usize] as u64;
+        if ki <= 1 {
+            return 0;
+        }
+        let mut dist = vec![u32::MAX; alive.len()];
+        dist[i as usize] = 0;
+        let mut queue = vec![i];
+        let mut q = 0;
+        let mut s = 0u64;
+        while q < queue.len() {
+            let v = queue[q];
+            q += 1;
+            let d = dist[v as usize];
+            if d == radius {
+                s += (deg[v as usize] as u64).saturating_sub(1);
+                continue;
+            }
+            for &u in net.neighbors(v) {
+                if alive[u as usize] && dist[u as usize] == u32::MAX {
+                    dist[u as usize] = d + 1;
+                    queue.push(u);
+                }
+            }
+        }
+        (ki - 1) * s
+    }
 
     #[test]
     fn ci_of_a_path_node_counts_the_distance_two_boundary() {
-        // Path 0-1-2-3-4: CI_2(2) = (2−1)·((k_0 − 1) + (k_4 − 1)) = 0;
-        // CI_2(1) = 1·(k_3 − 1) = 1.
+        // Path 0-1-2-3-4, worked by hand from the definition in Morone &
+        // Makse (2015): CI_2(2) = (2−1)·((k_0 − 1) + (k_4 − 1)) = 0;
+        // CI_2(1) = 1·(k_3 − 1) = 1; CI_1(2) = 1·((k_1 − 1) + (k_3 − 1)) = 2.
         let e: Vec<(u32, u32)> = (0..4).map(|i| (i, i + 1)).collect();
         let net = Network::from_edges(5, false, e, None, WeightMerge::Max).unwrap().0;
         let p = Present::new(&net, &[]);
-        let mut b = Ball::new(5);
-        assert_eq!(ci(&net, &p.alive, &p.degree, &mut b, 2, 2), 0);
-        assert_eq!(ci(&net, &p.alive, &p.degree, &mut b, 1, 2), 1);
-        assert_eq!(ci(&net, &p.alive, &p.degree, &mut b, 0, 2), 0);
+        let mut s = Searcher::new(&p.alive);
+        for (i, r, want) in [(2, 2, 0), (1, 2, 1), (0, 2, 0), (2, 1, 2), (1, 0, 1)] {
+            assert_eq!(s.ci(&net, &p.degree, i, r), want, "CI_{r}({i})");
+            assert_eq!(plain_ci(&net, &p.alive, &p.degree, i, r), want, "CI_{r}({i})");
+        }
     }
 
-    /// The same removal phase recomputing every node within ℓ + 1.
+    /// The removal phase by its definition: after every removal, the CI of
+    /// every present node is recomputed from scratch and the largest key
+    /// `(CI, degree, −index)` goes next.
     fn naive_ci_order(present: &Present<'_>, radius: u32) -> Vec<u32> {
         let net = present.net;
         let n = present.alive.len();
         let mut alive = present.alive.clone();
         let mut deg = present.degree.clone();
-        let mut ball = Ball::new(n);
         let mut order = Vec::new();
         for _ in 0..present.candidates().len() {
             let mut best: Option<(u64, u32, Reverse<u32>)> = None;
             for v in 0..n as u32 {
                 if alive[v as usize] {
-                    let k =
-                        (ci(net, &alive, &deg, &mut ball, v, radius), deg[v as usize], Reverse(v));
-                    best = best.max(Some(k));
+                    let c = plain_ci(net, &alive, &deg, v, radius);
+                    best = best.max(Some((c, deg[v as usize], Reverse(v))));
                 }
             }
             let v = best.unwrap().2 .0;
@@ -305,15 +447,38 @@ mod tests {
         order
     }
 
+    fn check(net: &Network, absent: &[bool], radius: u32, what: &str) {
+        let p = Present::new(net, absent);
+        // Huge target: no reinsertion, so the order is the removal phase.
+        let fast = collective_influence_order(&p, radius, 1.0);
+        assert_eq!(fast, naive_ci_order(&p, radius), "{what}, radius {radius}");
+    }
+
     #[test]
     fn incremental_updates_match_full_recomputation() {
-        let net = crate::network::generate::gnm(300, 700, 9).unwrap();
-        let p = Present::new(&net, &[]);
-        for radius in [1, 2, 3] {
-            // Huge target: no reinsertion, so the order is the removal phase.
-            let fast = collective_influence_order(&p, radius, 1.0);
-            assert_eq!(fast, naive_ci_order(&p, radius), "radius {radius}");
+        let net = gnm(300, 700, 9).unwrap();
+        for radius in [0, 1, 2, 3, 4] {
+            check(&net, &[], radius, "G(300, 700)");
         }
+        for seed in [1, 2, 3] {
+            let net = gnm(250, 500 + 100 * seed, seed).unwrap();
+            let absent: Vec<bool> = (0..250).map(|v| v % 5 == seed as usize).collect();
+            for radius in [1, 2, 3] {
+                check(&net, &absent, radius, &format!("G(250, m) seed {seed}, absent"));
+            }
+        }
+        let ba = barabasi_albert(300, 2, 4).unwrap();
+        let absent: Vec<bool> = (0..300).map(|v| v % 11 == 3).collect();
+        for radius in [1, 2, 3] {
+            check(&ba, &[], radius, "Barabási–Albert(300, 2)");
+            check(&ba, &absent, radius, "Barabási–Albert(300, 2), absent");
+        }
+    }
+
+    #[test]
+    fn incremental_updates_match_full_recomputation_at_2000_nodes() {
+        let net = gnm(2000, 5000, 17).unwrap();
+        check(&net, &[], 2, "G(2000, 5000)");
     }
 
     #[test]
