@@ -45,6 +45,7 @@
 //! put-back nodes, last put back first; then the rest of the CI order.
 
 use std::cmp::Reverse;
+use std::collections::binary_heap::PeekMut;
 use std::collections::BinaryHeap;
 
 use rayon::prelude::*;
@@ -57,78 +58,111 @@ use crate::percolation::UnionFind;
 /// `mark` value of a removed (or absent) node: never "unvisited".
 const DEAD: u32 = u32::MAX;
 
-/// Breadth-first ball searches over the nodes still present.
+/// Current degrees and breadth-first ball searches over the nodes still
+/// present.
 struct Searcher {
-    /// `DEAD`, or the stamp of the last search that reached the node
-    /// (a node is unvisited by the current search iff `mark < now`).
-    mark: Vec<u32>,
+    /// `[mark, degree]` per node, side by side so that a search reads a
+    /// boundary node's degree from the line it has just marked. `mark` is
+    /// `DEAD`, or the stamp of the last search that reached the node (a
+    /// node is unvisited by the current search iff `mark < now`).
+    node: Vec<[u32; 2]>,
     now: u32,
-    /// The nodes reached, in distance order.
+    /// The nodes reached at distance < radius, in distance order.
     queue: Vec<u32>,
     /// `layer[d]`: start in `queue` of the nodes at distance d, for
-    /// d = 0..=radius + 1 (the last entry is `queue.len()`).
+    /// d < radius, then `queue.len()`.
     layer: Vec<usize>,
 }
 
 impl Searcher {
-    fn new(alive: &[bool]) -> Self {
-        let mark = alive.iter().map(|&a| if a { 0 } else { DEAD }).collect();
-        Searcher { mark, now: 0, queue: Vec::new(), layer: Vec::new() }
+    fn new(present: &Present<'_>) -> Self {
+        let node = present
+            .alive
+            .iter()
+            .zip(&present.degree)
+            .map(|(&a, &k)| [if a { 0 } else { DEAD }, k])
+            .collect();
+        Searcher { node, now: 0, queue: Vec::new(), layer: Vec::new() }
     }
 
-    fn kill(&mut self, v: u32) {
-        self.mark[v as usize] = DEAD;
+    fn deg(&self, v: u32) -> u32 {
+        self.node[v as usize][1]
     }
 
     fn is_alive(&self, v: u32) -> bool {
-        self.mark[v as usize] != DEAD
+        self.node[v as usize][0] != DEAD
     }
 
-    /// Nodes within `radius` of the present node `s`; returns the start
-    /// in `queue` of those at distance exactly `radius`.
-    fn search(&mut self, net: &Network, s: u32, radius: u32) -> usize {
+    /// Removes v: marks it dead and lowers its present neighbours' degrees.
+    fn remove(&mut self, net: &Network, v: u32) {
+        self.node[v as usize][0] = DEAD;
+        for &u in net.neighbors(v) {
+            let x = &mut self.node[u as usize];
+            if x[0] != DEAD {
+                x[1] -= 1;
+            }
+        }
+    }
+
+    /// Breadth-first search from the present node `s` to depth `radius`:
+    /// `f(u, k_u)` is called once for every node u at distance exactly
+    /// `radius`; the nodes nearer than that are left in `queue`.
+    fn visit(&mut self, net: &Network, s: u32, radius: u32, mut f: impl FnMut(u32, u32)) {
         self.now += 1;
         if self.now == DEAD {
-            for m in self.mark.iter_mut().filter(|m| **m != DEAD) {
-                *m = 0;
+            for x in self.node.iter_mut().filter(|x| x[0] != DEAD) {
+                x[0] = 0;
             }
             self.now = 1;
         }
         let now = self.now;
         self.queue.clear();
         self.layer.clear();
+        self.node[s as usize][0] = now;
+        if radius == 0 {
+            f(s, self.node[s as usize][1]);
+            return;
+        }
         self.queue.push(s);
-        self.mark[s as usize] = now;
-        let (mut start, mut end) = (0, 1);
         self.layer.push(0);
-        for _ in 0..radius {
+        let mut start = 0;
+        for _ in 1..radius {
+            let end = self.queue.len();
+            self.layer.push(end);
             for i in start..end {
                 let v = self.queue[i];
                 for &u in net.neighbors(v) {
-                    let m = &mut self.mark[u as usize];
-                    if *m < now {
-                        *m = now;
+                    let x = &mut self.node[u as usize];
+                    if x[0] < now {
+                        x[0] = now;
                         self.queue.push(u);
                     }
                 }
             }
             start = end;
-            end = self.queue.len();
-            self.layer.push(start);
         }
+        let end = self.queue.len();
         self.layer.push(end);
-        start
+        for i in start..end {
+            let v = self.queue[i];
+            for &u in net.neighbors(v) {
+                let x = &mut self.node[u as usize];
+                if x[0] < now {
+                    x[0] = now;
+                    f(u, x[1]);
+                }
+            }
+        }
     }
 
     /// `CI_radius(s)` in the current network.
-    fn ci(&mut self, net: &Network, deg: &[u32], s: u32, radius: u32) -> u64 {
-        let ks = deg[s as usize] as u64;
+    fn ci(&mut self, net: &Network, s: u32, radius: u32) -> u64 {
+        let ks = self.deg(s) as u64;
         if ks <= 1 {
             return 0;
         }
-        let b = self.search(net, s, radius);
-        let sum: u64 =
-            self.queue[b..].iter().map(|&j| (deg[j as usize] as u64).saturating_sub(1)).sum();
+        let mut sum = 0u64;
+        self.visit(net, s, radius, |_, k| sum += (k as u64).saturating_sub(1));
         (ks - 1) * sum
     }
 }
@@ -141,15 +175,9 @@ fn initial_values(present: &Present<'_>, radius: u32) -> Vec<u64> {
     let blocks: Vec<Vec<u64>> = (0..n.div_ceil(block))
         .into_par_iter()
         .map(|b| {
-            let mut s = Searcher::new(&present.alive);
+            let mut s = Searcher::new(present);
             (b * block..((b + 1) * block).min(n))
-                .map(|v| {
-                    if present.alive[v] {
-                        s.ci(present.net, &present.degree, v as u32, radius)
-                    } else {
-                        0
-                    }
-                })
+                .map(|v| if present.alive[v] { s.ci(present.net, v as u32, radius) } else { 0 })
                 .collect()
         })
         .collect();
@@ -168,15 +196,14 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
 fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     let net = present.net;
     let n = present.alive.len();
-    let mut deg = present.degree.clone();
     let mut val = initial_values(present, radius);
-    let mut s = Searcher::new(&present.alive);
+    let mut s = Searcher::new(present);
     type Key = (u64, u32, Reverse<u32>);
     let candidates = present.candidates();
     let mut heap: BinaryHeap<Key> =
-        candidates.iter().map(|&v| (val[v as usize], deg[v as usize], Reverse(v))).collect();
+        candidates.iter().map(|&v| (val[v as usize], s.deg(v), Reverse(v))).collect();
     // `bound[v]`: key of v's heap entry that is at least v's current key.
-    let mut bound: Vec<(u64, u32)> = (0..n).map(|v| (val[v], deg[v])).collect();
+    let mut bound: Vec<(u64, u32)> = (0..n).map(|v| (val[v], present.degree[v])).collect();
     let mut order = Vec::with_capacity(candidates.len());
     drop(candidates);
     // Nodes at 2 ≤ d ≤ ℓ − 1 and at d = ℓ from the removed node.
@@ -184,58 +211,62 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     let mut shell: Vec<u32> = Vec::new();
     // Recomputed CI of the removed node's neighbours.
     let mut fresh: Vec<(u32, u64)> = Vec::new();
-    while let Some((c, d, Reverse(v))) = heap.pop() {
+    let mut by_degree = false;
+    loop {
+        let Some(mut top) = heap.peek_mut() else { break };
+        let (c, d, Reverse(v)) = *top;
         let vi = v as usize;
         if !s.is_alive(v) {
+            PeekMut::pop(top);
             continue;
         }
-        if val[vi] != c || deg[vi] != d {
+        let now = (val[vi], s.deg(v));
+        if now != (c, d) {
+            // A stale entry: refresh it in place if it is v's bound.
             if bound[vi] == (c, d) {
-                bound[vi] = (val[vi], deg[vi]);
-                heap.push((val[vi], deg[vi], Reverse(v)));
+                bound[vi] = now;
+                *top = (now.0, now.1, Reverse(v));
+            } else {
+                PeekMut::pop(top);
             }
             continue;
         }
         if c == 0 && radius <= 2 {
             // Every CI is 0 and stays 0: the rest is adaptive degree
             // (highest degree, then lower index — the heap's tie rule).
-            drop(heap);
-            finish_by_degree(net, &mut s, &mut deg, &mut order);
+            by_degree = true;
             break;
         }
-        let kv = deg[vi];
+        PeekMut::pop(top);
+        let kv = d;
         order.push(v);
         if kv == 0 {
-            s.kill(v);
+            s.remove(net, v);
             continue;
         }
         inner.clear();
         shell.clear();
-        let reach = if kv >= 2 { radius } else { radius.saturating_sub(1) };
-        if reach >= 2 {
-            s.search(net, v, reach);
-            let l = &s.layer;
-            inner.extend_from_slice(&s.queue[l[2]..l[radius.min(reach + 1) as usize]]);
-            if reach == radius {
-                shell.extend_from_slice(&s.queue[l[radius as usize]..l[radius as usize + 1]]);
+        if (radius >= 2 && kv >= 2) || radius >= 3 {
+            // Distances from v before its removal: nodes at d = ℓ get the
+            // v term, nodes at 2 ≤ d ≤ ℓ − 1 are recomputed.
+            let reach = if kv >= 2 { radius } else { radius - 1 };
+            let target = if kv >= 2 { &mut shell } else { &mut inner };
+            s.visit(net, v, reach, |u, _| target.push(u));
+            if reach >= 2 {
+                inner.extend_from_slice(&s.queue[s.layer[2]..]);
             }
         }
-        s.kill(v);
-        for &j in net.neighbors(v) {
-            if s.is_alive(j) {
-                deg[j as usize] -= 1;
-            }
-        }
+        s.remove(net, v);
         let tv = (kv - 1) as u64;
         for &u in &shell {
-            val[u as usize] -= (deg[u as usize] as u64).saturating_sub(1) * tv;
+            val[u as usize] -= (s.deg(u) as u64).saturating_sub(1) * tv;
         }
         fresh.clear();
         for &j in net.neighbors(v) {
             if !s.is_alive(j) {
                 continue;
             }
-            let kj = deg[j as usize] as u64;
+            let kj = s.deg(j) as u64;
             if kj == 0 {
                 fresh.push((j, 0));
                 continue;
@@ -244,46 +275,43 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
             // distance ℓ from j. Values of nodes within ℓ − 1 of v (the
             // neighbours and `inner`) are overwritten below, so the
             // subtraction may wrap for them.
-            let b = s.search(net, j, radius);
             let mut sum = 0u64;
-            for &u in &s.queue[b..] {
-                let t = (deg[u as usize] as u64).saturating_sub(1);
+            s.visit(net, j, radius, |u, ku| {
+                let t = (ku as u64).saturating_sub(1);
                 sum += t;
                 val[u as usize] = val[u as usize].wrapping_sub(t);
-            }
+            });
             fresh.push((j, kj.saturating_sub(1) * sum));
         }
         for &(j, x) in &fresh {
             val[j as usize] = x;
         }
         for &u in &inner {
-            val[u as usize] = s.ci(net, &deg, u, radius);
+            val[u as usize] = s.ci(net, u, radius);
         }
         for u in fresh.iter().map(|&(j, _)| j).chain(inner.iter().copied()) {
-            let key = (val[u as usize], deg[u as usize]);
+            let key = (val[u as usize], s.deg(u));
             if key > bound[u as usize] {
                 bound[u as usize] = key;
                 heap.push((key.0, key.1, Reverse(u)));
             }
         }
     }
+    if by_degree {
+        drop(heap);
+        finish_by_degree(net, &mut s, &mut order);
+    }
     order
 }
 
 /// Appends the present nodes of `s` in adaptive-degree order (highest
 /// current degree first, ties by lower index).
-fn finish_by_degree(net: &Network, s: &mut Searcher, deg: &mut [u32], order: &mut Vec<u32>) {
-    let rest: Vec<(u32, u32)> =
-        (0..deg.len() as u32).filter(|&v| s.is_alive(v)).map(|v| (v, deg[v as usize])).collect();
-    let mut queue = LazyBuckets::new(rest.into_iter());
-    while let Some(v) = queue.pop(|v| deg[v as usize]) {
-        s.kill(v);
+fn finish_by_degree(net: &Network, s: &mut Searcher, order: &mut Vec<u32>) {
+    let rest = (0..s.node.len() as u32).filter(|&v| s.is_alive(v)).map(|v| (v, s.deg(v)));
+    let mut queue = LazyBuckets::new(rest);
+    while let Some(v) = queue.pop(|v| s.deg(v)) {
+        s.remove(net, v);
         order.push(v);
-        for &u in net.neighbors(v) {
-            if s.is_alive(u) {
-                deg[u as usize] -= 1;
-            }
-        }
     }
 }
 
@@ -411,9 +439,9 @@ mod tests {
         let e: Vec<(u32, u32)> = (0..4).map(|i| (i, i + 1)).collect();
         let net = Network::from_edges(5, false, e, None, WeightMerge::Max).unwrap().0;
         let p = Present::new(&net, &[]);
-        let mut s = Searcher::new(&p.alive);
+        let mut s = Searcher::new(&p);
         for (i, r, want) in [(2, 2, 0), (1, 2, 1), (0, 2, 0), (2, 1, 2), (1, 0, 1)] {
-            assert_eq!(s.ci(&net, &p.degree, i, r), want, "CI_{r}({i})");
+            assert_eq!(s.ci(&net, i, r), want, "CI_{r}({i})");
             assert_eq!(plain_ci(&net, &p.alive, &p.degree, i, r), want, "CI_{r}({i})");
         }
     }
