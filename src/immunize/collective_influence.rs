@@ -52,19 +52,50 @@ use rayon::prelude::*;
 
 use super::degree::LazyBuckets;
 use super::Present;
-use crate::network::Network;
 use crate::percolation::UnionFind;
 
 /// `mark` value of a removed (or absent) node: never "unvisited".
 const DEAD: u32 = u32::MAX;
 
+/// The adjacency rows of the present nodes, kept compact: the row of a
+/// present node v is `adj[off[v]..off[v] + k_v]` and holds exactly its
+/// present neighbours (in no particular order), so searches never scan
+/// removed nodes.
+struct Rows<'a> {
+    off: &'a [u64],
+    adj: Vec<u32>,
+}
+
+impl<'a> Rows<'a> {
+    fn new(present: &Present<'a>) -> Self {
+        let (off, targets, _) = present.net.out_rows();
+        let mut adj = targets.to_vec();
+        for v in 0..present.alive.len() {
+            let (a, b) = (off[v] as usize, off[v + 1] as usize);
+            let mut w = a;
+            for i in a..b {
+                if present.alive[adj[i] as usize] {
+                    adj[w] = adj[i];
+                    w += 1;
+                }
+            }
+        }
+        Rows { off, adj }
+    }
+
+    fn row(&self, v: u32, k: u32) -> &[u32] {
+        let a = self.off[v as usize] as usize;
+        &self.adj[a..a + k as usize]
+    }
+}
+
 /// Current degrees and breadth-first ball searches over the nodes still
 /// present.
 struct Searcher {
     /// `[mark, degree]` per node, side by side so that a search reads a
-    /// boundary node's degree from the line it has just marked. `mark` is
-    /// `DEAD`, or the stamp of the last search that reached the node (a
-    /// node is unvisited by the current search iff `mark < now`).
+    /// node's degree (its row length) from the line it has just marked.
+    /// `mark` is `DEAD`, or the stamp of the last search that reached the
+    /// node (a node is unvisited by the current search iff `mark < now`).
     node: Vec<[u32; 2]>,
     now: u32,
     /// The nodes reached at distance < radius, in distance order.
@@ -93,21 +124,27 @@ impl Searcher {
         self.node[v as usize][0] != DEAD
     }
 
-    /// Removes v: marks it dead and lowers its present neighbours' degrees.
-    fn remove(&mut self, net: &Network, v: u32) {
+    /// Removes v: marks it dead and takes it out of its neighbours' rows
+    /// (lowering their degrees). v's own row and degree are left as they
+    /// were, so `rows.row(v, deg(v))` still lists its neighbours.
+    fn remove(&mut self, rows: &mut Rows<'_>, v: u32) {
         self.node[v as usize][0] = DEAD;
-        for &u in net.neighbors(v) {
+        let a = rows.off[v as usize] as usize;
+        for i in a..a + self.deg(v) as usize {
+            let u = rows.adj[i];
             let x = &mut self.node[u as usize];
-            if x[0] != DEAD {
-                x[1] -= 1;
-            }
+            let b = rows.off[u as usize] as usize;
+            let last = b + x[1] as usize - 1;
+            let p = b + rows.adj[b..=last].iter().position(|&w| w == v).unwrap_or(last - b);
+            rows.adj.swap(p, last);
+            x[1] -= 1;
         }
     }
 
     /// Breadth-first search from the present node `s` to depth `radius`:
     /// `f(u, k_u)` is called once for every node u at distance exactly
     /// `radius`; the nodes nearer than that are left in `queue`.
-    fn visit(&mut self, net: &Network, s: u32, radius: u32, mut f: impl FnMut(u32, u32)) {
+    fn visit(&mut self, rows: &Rows<'_>, s: u32, radius: u32, mut f: impl FnMut(u32, u32)) {
         self.now += 1;
         if self.now == DEAD {
             for x in self.node.iter_mut().filter(|x| x[0] != DEAD) {
@@ -131,7 +168,7 @@ impl Searcher {
             self.layer.push(end);
             for i in start..end {
                 let v = self.queue[i];
-                for &u in net.neighbors(v) {
+                for &u in rows.row(v, self.node[v as usize][1]) {
                     let x = &mut self.node[u as usize];
                     if x[0] < now {
                         x[0] = now;
@@ -145,7 +182,7 @@ impl Searcher {
         self.layer.push(end);
         for i in start..end {
             let v = self.queue[i];
-            for &u in net.neighbors(v) {
+            for &u in rows.row(v, self.node[v as usize][1]) {
                 let x = &mut self.node[u as usize];
                 if x[0] < now {
                     x[0] = now;
@@ -156,20 +193,20 @@ impl Searcher {
     }
 
     /// `CI_radius(s)` in the current network.
-    fn ci(&mut self, net: &Network, s: u32, radius: u32) -> u64 {
+    fn ci(&mut self, rows: &Rows<'_>, s: u32, radius: u32) -> u64 {
         let ks = self.deg(s) as u64;
         if ks <= 1 {
             return 0;
         }
         let mut sum = 0u64;
-        self.visit(net, s, radius, |_, k| sum += (k as u64).saturating_sub(1));
+        self.visit(rows, s, radius, |_, k| sum += (k as u64).saturating_sub(1));
         (ks - 1) * sum
     }
 }
 
 /// `CI_radius` of every node (0 for absent ones), computed in parallel
 /// over blocks of nodes (the values do not depend on the split).
-fn initial_values(present: &Present<'_>, radius: u32) -> Vec<u64> {
+fn initial_values(present: &Present<'_>, rows: &Rows<'_>, radius: u32) -> Vec<u64> {
     let n = present.alive.len();
     let block = (n / (4 * rayon::current_num_threads().max(1))).max(4096);
     let blocks: Vec<Vec<u64>> = (0..n.div_ceil(block))
@@ -177,7 +214,7 @@ fn initial_values(present: &Present<'_>, radius: u32) -> Vec<u64> {
         .map(|b| {
             let mut s = Searcher::new(present);
             (b * block..((b + 1) * block).min(n))
-                .map(|v| if present.alive[v] { s.ci(present.net, v as u32, radius) } else { 0 })
+                .map(|v| if present.alive[v] { s.ci(rows, v as u32, radius) } else { 0 })
                 .collect()
         })
         .collect();
@@ -192,18 +229,24 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
     reinsert(present, order, target)
 }
 
+/// Heap key of v: `(CI, degree, −index)` packed into one integer.
+fn key(ci: u64, k: u32, v: u32) -> u128 {
+    ((ci as u128) << 64) | ((k as u128) << 32) | (u32::MAX - v) as u128
+}
+
 /// The removal phase (module doc): every present node, in CI order.
 fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
-    let net = present.net;
     let n = present.alive.len();
-    let mut val = initial_values(present, radius);
+    let mut rows = Rows::new(present);
+    let mut val = initial_values(present, &rows, radius);
     let mut s = Searcher::new(present);
-    type Key = (u64, u32, Reverse<u32>);
     let candidates = present.candidates();
-    let mut heap: BinaryHeap<Key> =
-        candidates.iter().map(|&v| (val[v as usize], s.deg(v), Reverse(v))).collect();
-    // `bound[v]`: key of v's heap entry that is at least v's current key.
-    let mut bound: Vec<(u64, u32)> = (0..n).map(|v| (val[v], present.degree[v])).collect();
+    let mut heap: BinaryHeap<u128> =
+        candidates.iter().map(|&v| key(val[v as usize], s.deg(v), v)).collect();
+    // `bound[v]`: the key of v's heap entry that is at least v's current
+    // key. A key that falls pushes nothing (the entry is refreshed when it
+    // surfaces); a key that rises (ℓ ≥ 3) pushes a new entry.
+    let mut bound: Vec<u128> = (0..n as u32).map(|v| key(val[v as usize], s.deg(v), v)).collect();
     let mut order = Vec::with_capacity(candidates.len());
     drop(candidates);
     // Nodes at 2 ≤ d ≤ ℓ − 1 and at d = ℓ from the removed node.
@@ -214,34 +257,34 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     let mut by_degree = false;
     loop {
         let Some(mut top) = heap.peek_mut() else { break };
-        let (c, d, Reverse(v)) = *top;
+        let v = u32::MAX - *top as u32;
         let vi = v as usize;
         if !s.is_alive(v) {
             PeekMut::pop(top);
             continue;
         }
-        let now = (val[vi], s.deg(v));
-        if now != (c, d) {
+        let now = key(val[vi], s.deg(v), v);
+        if now != *top {
             // A stale entry: refresh it in place if it is v's bound.
-            if bound[vi] == (c, d) {
+            if bound[vi] == *top {
                 bound[vi] = now;
-                *top = (now.0, now.1, Reverse(v));
+                *top = now;
             } else {
                 PeekMut::pop(top);
             }
             continue;
         }
-        if c == 0 && radius <= 2 {
+        if val[vi] == 0 && radius <= 2 {
             // Every CI is 0 and stays 0: the rest is adaptive degree
             // (highest degree, then lower index — the heap's tie rule).
             by_degree = true;
             break;
         }
         PeekMut::pop(top);
-        let kv = d;
+        let kv = s.deg(v);
         order.push(v);
         if kv == 0 {
-            s.remove(net, v);
+            s.remove(&mut rows, v);
             continue;
         }
         inner.clear();
@@ -251,21 +294,18 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
             // v term, nodes at 2 ≤ d ≤ ℓ − 1 are recomputed.
             let reach = if kv >= 2 { radius } else { radius - 1 };
             let target = if kv >= 2 { &mut shell } else { &mut inner };
-            s.visit(net, v, reach, |u, _| target.push(u));
+            s.visit(&rows, v, reach, |u, _| target.push(u));
             if reach >= 2 {
                 inner.extend_from_slice(&s.queue[s.layer[2]..]);
             }
         }
-        s.remove(net, v);
+        s.remove(&mut rows, v);
         let tv = (kv - 1) as u64;
         for &u in &shell {
             val[u as usize] -= (s.deg(u) as u64).saturating_sub(1) * tv;
         }
         fresh.clear();
-        for &j in net.neighbors(v) {
-            if !s.is_alive(j) {
-                continue;
-            }
+        for &j in rows.row(v, kv) {
             let kj = s.deg(j) as u64;
             if kj == 0 {
                 fresh.push((j, 0));
@@ -276,7 +316,7 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
             // neighbours and `inner`) are overwritten below, so the
             // subtraction may wrap for them.
             let mut sum = 0u64;
-            s.visit(net, j, radius, |u, ku| {
+            s.visit(&rows, j, radius, |u, ku| {
                 let t = (ku as u64).saturating_sub(1);
                 sum += t;
                 val[u as usize] = val[u as usize].wrapping_sub(t);
@@ -287,30 +327,30 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
             val[j as usize] = x;
         }
         for &u in &inner {
-            val[u as usize] = s.ci(net, u, radius);
+            val[u as usize] = s.ci(&rows, u, radius);
         }
         for u in fresh.iter().map(|&(j, _)| j).chain(inner.iter().copied()) {
-            let key = (val[u as usize], s.deg(u));
-            if key > bound[u as usize] {
-                bound[u as usize] = key;
-                heap.push((key.0, key.1, Reverse(u)));
+            let k = key(val[u as usize], s.deg(u), u);
+            if k > bound[u as usize] {
+                bound[u as usize] = k;
+                heap.push(k);
             }
         }
     }
     if by_degree {
         drop(heap);
-        finish_by_degree(net, &mut s, &mut order);
+        finish_by_degree(&mut rows, &mut s, &mut order);
     }
     order
 }
 
 /// Appends the present nodes of `s` in adaptive-degree order (highest
 /// current degree first, ties by lower index).
-fn finish_by_degree(net: &Network, s: &mut Searcher, order: &mut Vec<u32>) {
+fn finish_by_degree(rows: &mut Rows<'_>, s: &mut Searcher, order: &mut Vec<u32>) {
     let rest = (0..s.node.len() as u32).filter(|&v| s.is_alive(v)).map(|v| (v, s.deg(v)));
     let mut queue = LazyBuckets::new(rest);
     while let Some(v) = queue.pop(|v| s.deg(v)) {
-        s.remove(net, v);
+        s.remove(rows, v);
         order.push(v);
     }
 }
@@ -400,7 +440,7 @@ fn reinsert(present: &Present<'_>, order: Vec<u32>, target: f64) -> Vec<u32> {
 mod tests {
     use super::*;
     use crate::network::generate::{barabasi_albert, gnm};
-    use crate::network::WeightMerge;
+    use crate::network::{Network, WeightMerge};
 
     /// CI_radius(i) by a plain BFS over `alive` (independent of `Searcher`).
     fn plain_ci(net: &Network, alive: &[bool], deg: &[u32], i: u32, radius: u32) -> u64 {
@@ -439,9 +479,9 @@ mod tests {
         let e: Vec<(u32, u32)> = (0..4).map(|i| (i, i + 1)).collect();
         let net = Network::from_edges(5, false, e, None, WeightMerge::Max).unwrap().0;
         let p = Present::new(&net, &[]);
-        let mut s = Searcher::new(&p);
+        let (rows, mut s) = (Rows::new(&p), Searcher::new(&p));
         for (i, r, want) in [(2, 2, 0), (1, 2, 1), (0, 2, 0), (2, 1, 2), (1, 0, 1)] {
-            assert_eq!(s.ci(&net, i, r), want, "CI_{r}({i})");
+            assert_eq!(s.ci(&rows, i, r), want, "CI_{r}({i})");
             assert_eq!(plain_ci(&net, &p.alive, &p.degree, i, r), want, "CI_{r}({i})");
         }
     }
