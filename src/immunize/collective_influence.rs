@@ -45,7 +45,6 @@
 //! put-back nodes, last put back first; then the rest of the CI order.
 
 use std::cmp::Reverse;
-use std::collections::binary_heap::PeekMut;
 use std::collections::BinaryHeap;
 
 use rayon::prelude::*;
@@ -124,14 +123,23 @@ impl Rows {
     }
 }
 
-/// Current degrees and breadth-first ball searches over the nodes still
-/// present.
+/// One node's state in the removal phase, kept together so that a search
+/// reads and updates a node from the single cache line it marks.
+#[derive(Clone, Copy)]
+struct Slot {
+    /// `DEAD`, or the stamp of the last search that reached the node (a
+    /// node is unvisited by the current search iff `mark < now`).
+    mark: u32,
+    /// Current degree (the length of the node's row).
+    deg: u32,
+    /// Current CI (between updates of one removal it may be stale).
+    val: u64,
+}
+
+/// Current degrees and CI values, and breadth-first ball searches over
+/// the nodes still present.
 struct Searcher {
-    /// `[mark, degree]` per node, side by side so that a search reads a
-    /// node's degree (its row length) from the line it has just marked.
-    /// `mark` is `DEAD`, or the stamp of the last search that reached the
-    /// node (a node is unvisited by the current search iff `mark < now`).
-    node: Vec<[u32; 2]>,
+    node: Vec<Slot>,
     now: u32,
     /// The nodes reached at distance < radius, in distance order.
     queue: Vec<u32>,
@@ -142,52 +150,56 @@ struct Searcher {
 
 impl Searcher {
     fn new(deg: &[u32]) -> Self {
-        let node = deg.iter().map(|&k| [0, k]).collect();
+        let node = deg.iter().map(|&k| Slot { mark: 0, deg: k, val: 0 }).collect();
         Searcher { node, now: 0, queue: Vec::new(), layer: Vec::new() }
     }
 
     fn deg(&self, v: u32) -> u32 {
-        self.node[v as usize][1]
+        self.node[v as usize].deg
+    }
+
+    fn val(&self, v: u32) -> u64 {
+        self.node[v as usize].val
     }
 
     fn is_alive(&self, v: u32) -> bool {
-        self.node[v as usize][0] != DEAD
+        self.node[v as usize].mark != DEAD
     }
 
     /// Removes v: marks it dead and takes it out of its neighbours' rows
     /// (lowering their degrees). v's own row and degree are left as they
     /// were, so `rows.row(v, deg(v))` still lists its neighbours.
     fn remove(&mut self, rows: &mut Rows, v: u32) {
-        self.node[v as usize][0] = DEAD;
+        self.node[v as usize].mark = DEAD;
         let a = rows.off[v as usize] as usize;
         for i in a..a + self.deg(v) as usize {
             let u = rows.adj[i];
             let x = &mut self.node[u as usize];
             let b = rows.off[u as usize] as usize;
-            let last = b + x[1] as usize - 1;
+            let last = b + x.deg as usize - 1;
             let p = b + rows.adj[b..=last].iter().position(|&w| w == v).unwrap_or(last - b);
             rows.adj.swap(p, last);
-            x[1] -= 1;
+            x.deg -= 1;
         }
     }
 
     /// Breadth-first search from the present node `s` to depth `radius`:
-    /// `f(u, k_u)` is called once for every node u at distance exactly
-    /// `radius`; the nodes nearer than that are left in `queue`.
-    fn visit(&mut self, rows: &Rows, s: u32, radius: u32, mut f: impl FnMut(u32, u32)) {
+    /// `f(u, slot of u)` is called once for every node u at distance
+    /// exactly `radius`; the nodes nearer than that are left in `queue`.
+    fn visit(&mut self, rows: &Rows, s: u32, radius: u32, mut f: impl FnMut(u32, &mut Slot)) {
         self.now += 1;
         if self.now == DEAD {
-            for x in self.node.iter_mut().filter(|x| x[0] != DEAD) {
-                x[0] = 0;
+            for x in self.node.iter_mut().filter(|x| x.mark != DEAD) {
+                x.mark = 0;
             }
             self.now = 1;
         }
         let now = self.now;
         self.queue.clear();
         self.layer.clear();
-        self.node[s as usize][0] = now;
+        self.node[s as usize].mark = now;
         if radius == 0 {
-            f(s, self.node[s as usize][1]);
+            f(s, &mut self.node[s as usize]);
             return;
         }
         self.queue.push(s);
@@ -198,10 +210,10 @@ impl Searcher {
             self.layer.push(end);
             for i in start..end {
                 let v = self.queue[i];
-                for &u in rows.row(v, self.node[v as usize][1]) {
+                for &u in rows.row(v, self.node[v as usize].deg) {
                     let x = &mut self.node[u as usize];
-                    if x[0] < now {
-                        x[0] = now;
+                    if x.mark < now {
+                        x.mark = now;
                         self.queue.push(u);
                     }
                 }
@@ -212,11 +224,11 @@ impl Searcher {
         self.layer.push(end);
         for i in start..end {
             let v = self.queue[i];
-            for &u in rows.row(v, self.node[v as usize][1]) {
+            for &u in rows.row(v, self.node[v as usize].deg) {
                 let x = &mut self.node[u as usize];
-                if x[0] < now {
-                    x[0] = now;
-                    f(u, x[1]);
+                if x.mark < now {
+                    x.mark = now;
+                    f(u, x);
                 }
             }
         }
@@ -229,7 +241,7 @@ impl Searcher {
             return 0;
         }
         let mut sum = 0u64;
-        self.visit(rows, s, radius, |_, k| sum += (k as u64).saturating_sub(1));
+        self.visit(rows, s, radius, |_, x| sum += (x.deg as u64).saturating_sub(1));
         (ks - 1) * sum
     }
 }
@@ -262,53 +274,125 @@ fn key(ci: u64, k: u32, v: u32) -> u128 {
     ((ci as u128) << 64) | ((k as u128) << 32) | (u32::MAX - v) as u128
 }
 
+/// A 4-ary max-heap of keys (fewer levels, hence fewer cache misses, than
+/// a binary heap; the order of equal keys is irrelevant as keys are
+/// distinct).
+struct Heap(Vec<u128>);
+
+impl FromIterator<u128> for Heap {
+    fn from_iter<I: IntoIterator<Item = u128>>(it: I) -> Self {
+        let mut h = Heap(it.into_iter().collect());
+        for i in (0..h.0.len().div_ceil(4)).rev() {
+            h.sift_down(i);
+        }
+        h
+    }
+}
+
+impl Heap {
+    fn peek(&self) -> Option<u128> {
+        self.0.first().copied()
+    }
+
+    fn push(&mut self, k: u128) {
+        let mut i = self.0.len();
+        self.0.push(k);
+        while i > 0 {
+            let p = (i - 1) / 4;
+            if self.0[p] >= k {
+                break;
+            }
+            self.0[i] = self.0[p];
+            i = p;
+        }
+        self.0[i] = k;
+    }
+
+    fn pop(&mut self) {
+        if let Some(last) = self.0.pop() {
+            if !self.0.is_empty() {
+                self.0[0] = last;
+                self.sift_down(0);
+            }
+        }
+    }
+
+    /// Replaces the top key by `k` (not larger).
+    fn replace_top(&mut self, k: u128) {
+        self.0[0] = k;
+        self.sift_down(0);
+    }
+
+    fn sift_down(&mut self, mut i: usize) {
+        let h = &mut self.0;
+        let n = h.len();
+        let k = h[i];
+        loop {
+            let c = 4 * i + 1;
+            if c >= n {
+                break;
+            }
+            let mut best = c;
+            for d in c + 1..(c + 4).min(n) {
+                if h[d] > h[best] {
+                    best = d;
+                }
+            }
+            if h[best] <= k {
+                break;
+            }
+            h[i] = h[best];
+            i = best;
+        }
+        h[i] = k;
+    }
+}
+
 /// The removal phase (module doc): every present node, in CI order.
 fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     let (mut rows, lab) = Rows::new(present);
     let deg = rows.degrees();
     let n = deg.len();
-    let mut val = initial_values(&rows, &deg, radius);
     let mut s = Searcher::new(&deg);
+    for (x, c) in s.node.iter_mut().zip(initial_values(&rows, &deg, radius)) {
+        x.val = c;
+    }
     drop(deg);
     // For ℓ ≤ 2 no CI rises, so nodes of CI 0 never need an entry.
     let keep_zero = radius >= 3;
-    let entry =
-        |s: &Searcher, val: &[u64], v: u32| key(val[v as usize], s.deg(v), lab.orig[v as usize]);
-    let mut heap: BinaryHeap<u128> = (0..n as u32)
-        .filter(|&v| keep_zero || val[v as usize] > 0)
-        .map(|v| entry(&s, &val, v))
-        .collect();
+    let entry = |s: &Searcher, v: u32| key(s.val(v), s.deg(v), lab.orig[v as usize]);
+    let mut heap: Heap =
+        (0..n as u32).filter(|&v| keep_zero || s.val(v) > 0).map(|v| entry(&s, v)).collect();
     // `bound[v]`: the key of v's heap entry that is at least v's current
     // key. A key that falls pushes nothing (the entry is refreshed when it
     // surfaces); a key that rises (ℓ ≥ 3) pushes a new entry.
-    let mut bound: Vec<u128> = (0..n as u32).map(|v| entry(&s, &val, v)).collect();
+    let mut bound: Vec<u128> = (0..n as u32).map(|v| entry(&s, v)).collect();
     let mut order = Vec::with_capacity(n);
     // Nodes at 2 ≤ d ≤ ℓ − 1 and at d = ℓ from the removed node.
     let mut inner: Vec<u32> = Vec::new();
     let mut shell: Vec<u32> = Vec::new();
     // Recomputed CI of the removed node's neighbours.
     let mut fresh: Vec<(u32, u64)> = Vec::new();
-    loop {
-        let Some(mut top) = heap.peek_mut() else { break };
-        let v = lab.local[(u32::MAX - *top as u32) as usize];
+    while let Some(top) = heap.peek() {
+        let v = lab.local[(u32::MAX - top as u32) as usize];
         let vi = v as usize;
         if !s.is_alive(v) {
-            PeekMut::pop(top);
+            heap.pop();
             continue;
         }
-        let now = entry(&s, &val, v);
-        if now != *top {
+        let now = entry(&s, v);
+        if now != top {
             // A stale entry: refresh it in place if it is v's bound (and
             // still needed).
-            if bound[vi] == *top && (keep_zero || val[vi] > 0) {
+            if bound[vi] == top && (keep_zero || s.val(v) > 0) {
                 bound[vi] = now;
-                *top = now;
+                heap.replace_top(now);
             } else {
-                PeekMut::pop(top);
+                heap.pop();
             }
             continue;
         }
-        PeekMut::pop(top);
+        heap.pop();
         let kv = s.deg(v);
         order.push(lab.orig[vi]);
         if kv == 0 {
@@ -330,7 +414,8 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
         s.remove(&mut rows, v);
         let tv = (kv - 1) as u64;
         for &u in &shell {
-            val[u as usize] -= (s.deg(u) as u64).saturating_sub(1) * tv;
+            let x = &mut s.node[u as usize];
+            x.val -= (x.deg as u64).saturating_sub(1) * tv;
         }
         fresh.clear();
         for &j in rows.row(v, kv) {
@@ -344,21 +429,21 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
             // neighbours and `inner`) are overwritten below, so the
             // subtraction may wrap for them.
             let mut sum = 0u64;
-            s.visit(&rows, j, radius, |u, ku| {
-                let t = (ku as u64).saturating_sub(1);
+            s.visit(&rows, j, radius, |_, x| {
+                let t = (x.deg as u64).saturating_sub(1);
                 sum += t;
-                val[u as usize] = val[u as usize].wrapping_sub(t);
+                x.val = x.val.wrapping_sub(t);
             });
             fresh.push((j, kj.saturating_sub(1) * sum));
         }
         for &(j, x) in &fresh {
-            val[j as usize] = x;
+            s.node[j as usize].val = x;
         }
         for &u in &inner {
-            val[u as usize] = s.ci(&rows, u, radius);
+            s.node[u as usize].val = s.ci(&rows, u, radius);
         }
         for u in fresh.iter().map(|&(j, _)| j).chain(inner.iter().copied()) {
-            let k = entry(&s, &val, u);
+            let k = entry(&s, u);
             if k > bound[u as usize] {
                 bound[u as usize] = k;
                 heap.push(k);
