@@ -146,12 +146,22 @@ struct Searcher {
     /// `layer[d]`: start in `queue` of the nodes at distance d, for
     /// d < radius, then `queue.len()`.
     layer: Vec<usize>,
+    /// Scratch: the rows of one layer, and their entries.
+    span: Vec<(usize, usize)>,
+    cand: Vec<u32>,
 }
 
 impl Searcher {
     fn new(deg: &[u32]) -> Self {
         let node = deg.iter().map(|&k| Slot { mark: 0, deg: k, val: 0 }).collect();
-        Searcher { node, now: 0, queue: Vec::new(), layer: Vec::new() }
+        Searcher {
+            node,
+            now: 0,
+            queue: Vec::new(),
+            layer: Vec::new(),
+            span: Vec::new(),
+            cand: Vec::new(),
+        }
     }
 
     fn deg(&self, v: u32) -> u32 {
@@ -205,33 +215,52 @@ impl Searcher {
         self.queue.push(s);
         self.layer.push(0);
         let mut start = 0;
-        for _ in 1..radius {
+        for d in 1..=radius {
             let end = self.queue.len();
-            self.layer.push(end);
-            for i in start..end {
-                let v = self.queue[i];
-                for &u in rows.row(v, self.node[v as usize].deg) {
+            if d < radius {
+                self.layer.push(end);
+            }
+            // The layer's rows, then the slots of their entries, are first
+            // read in passes of independent loads, so that their cache
+            // misses overlap instead of queueing behind one another.
+            let mut touch = 0u32;
+            self.span.clear();
+            for &v in &self.queue[start..end] {
+                let k = self.node[v as usize].deg as usize;
+                if k > 0 {
+                    let a = rows.off[v as usize] as usize;
+                    touch ^= rows.adj[a];
+                    self.span.push((a, k));
+                }
+            }
+            self.cand.clear();
+            for &(a, k) in &self.span {
+                self.cand.extend_from_slice(&rows.adj[a..a + k]);
+            }
+            for &u in &self.cand {
+                touch ^= self.node[u as usize].mark;
+            }
+            std::hint::black_box(touch);
+            start = end;
+            if d < radius {
+                for &u in &self.cand {
                     let x = &mut self.node[u as usize];
                     if x.mark < now {
                         x.mark = now;
                         self.queue.push(u);
                     }
                 }
-            }
-            start = end;
-        }
-        let end = self.queue.len();
-        self.layer.push(end);
-        for i in start..end {
-            let v = self.queue[i];
-            for &u in rows.row(v, self.node[v as usize].deg) {
-                let x = &mut self.node[u as usize];
-                if x.mark < now {
-                    x.mark = now;
-                    f(u, x);
+            } else {
+                for &u in &self.cand {
+                    let x = &mut self.node[u as usize];
+                    if x.mark < now {
+                        x.mark = now;
+                        f(u, x);
+                    }
                 }
             }
         }
+        self.layer.push(self.queue.len());
     }
 
     /// `CI_radius(s)` in the current network.
