@@ -387,15 +387,17 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
         x.val = c;
     }
     drop(deg);
-    // For ℓ ≤ 2 no CI rises, so nodes of CI 0 never need an entry.
-    let keep_zero = radius >= 3;
+    // For ℓ ≤ 2 no CI rises: every node with CI > 0 has exactly one
+    // entry, and nodes of CI 0 need none.
+    let rises = radius >= 3;
     let entry = |s: &Searcher, v: u32| key(s.val(v), s.deg(v), lab.orig[v as usize]);
     let mut heap: Heap =
-        (0..n as u32).filter(|&v| keep_zero || s.val(v) > 0).map(|v| entry(&s, v)).collect();
-    // `bound[v]`: the key of v's heap entry that is at least v's current
-    // key. A key that falls pushes nothing (the entry is refreshed when it
-    // surfaces); a key that rises (ℓ ≥ 3) pushes a new entry.
-    let mut bound: Vec<u128> = (0..n as u32).map(|v| entry(&s, v)).collect();
+        (0..n as u32).filter(|&v| rises || s.val(v) > 0).map(|v| entry(&s, v)).collect();
+    // ℓ ≥ 3: `bound[v]` is the key of v's heap entry that is at least v's
+    // current key. A key that falls pushes nothing (the entry is refreshed
+    // when it surfaces); a key that rises pushes a new entry.
+    let mut bound: Vec<u128> =
+        if rises { (0..n as u32).map(|v| entry(&s, v)).collect() } else { Vec::new() };
     let mut order = Vec::with_capacity(n);
     // Nodes at 2 ≤ d ≤ ℓ − 1 and at d = ℓ from the removed node.
     let mut inner: Vec<u32> = Vec::new();
@@ -411,10 +413,12 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
         }
         let now = entry(&s, v);
         if now != top {
-            // A stale entry: refresh it in place if it is v's bound (and
-            // still needed).
-            if bound[vi] == top && (keep_zero || s.val(v) > 0) {
+            // A stale entry: refresh it in place if it is v's bound (ℓ ≥ 3)
+            // or v's CI is still positive (ℓ ≤ 2).
+            if rises && bound[vi] == top {
                 bound[vi] = now;
+                heap.replace_top(now);
+            } else if !rises && s.val(v) > 0 {
                 heap.replace_top(now);
             } else {
                 heap.pop();
@@ -471,7 +475,7 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
         for &u in &inner {
             s.node[u as usize].val = s.ci(&rows, u, radius);
         }
-        for u in fresh.iter().map(|&(j, _)| j).chain(inner.iter().copied()) {
+        for u in fresh.iter().map(|&(j, _)| j).chain(inner.iter().copied()).filter(|_| rises) {
             let k = entry(&s, u);
             if k > bound[u as usize] {
                 bound[u as usize] = k;
