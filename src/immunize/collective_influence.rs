@@ -7,31 +7,41 @@
 //! nodes at shortest-path distance exactly ℓ from i in the current
 //! network. The node of largest CI is removed (ties: higher current
 //! degree, then lower index — so once every CI is 0 the order continues by
-//! degree). A lazy max-heap holds the keys: a key that falls leaves the
-//! old entry, which is refreshed when it surfaces; a key that rises pushes
-//! a new entry.
+//! degree). The initial values are computed in parallel (one ℓ-search per
+//! node; the values do not depend on the thread count). A lazy 4-ary
+//! max-heap holds the keys: a key that falls leaves the old entry, which
+//! is refreshed when it surfaces; a key that rises pushes a new entry.
 //!
-//! Update after removing v (degree `k_v`), by the distance d = d(u, v)
-//! before the removal (Morone & Makse update only the nodes within ℓ + 1;
-//! the arithmetic below is exact, checked against full recomputation by
-//! the tests):
-//! - d = 1, and 2 ≤ d ≤ ℓ − 1: degrees or the ball change; CI is
+//! Update after removing v (degree `k_v` before the removal), by the
+//! distance d = d(u, v) before the removal (Morone & Makse: only nodes
+//! within ℓ + 1 change; the arithmetic below is exact, and the tests check
+//! the whole order against full recomputation after every removal):
+//! - d = 1, and 2 ≤ d ≤ ℓ − 1: the degree or the ball changes; CI is
 //!   recomputed by an ℓ-search (for ℓ ≥ 3 it can rise).
-//! - d = ℓ (ℓ ≥ 2): no path of length ≤ ℓ from u passes through v except
-//!   the one ending there, so the boundary only loses v:
-//!   `CI(u) −= (k_u − 1)₊ (k_v − 1)₊`.
-//! - d = ℓ and d = ℓ + 1: each neighbour j of v at distance ℓ from u with
-//!   old degree ≥ 2 lowers u's sum by one: `CI(u) −= (k_u − 1)₊`.
+//! - d = ℓ (ℓ ≥ 2): no shortest path of length ≤ ℓ from u passes through
+//!   v except the one ending there, so the boundary only loses v:
+//!   `CI(u) −= (k_u − 1)₊ (k_v − 1)₊` (k_u is unchanged for d ≥ 2).
+//! - d = ℓ and d = ℓ + 1: each neighbour j of v at distance ℓ from u whose
+//!   degree before the removal was ≥ 2 lowers u's sum by one:
+//!   `CI(u) −= (k_u − 1)₊`.
 //! - d ≥ ℓ + 2: unchanged.
 //!
 //! The pairs (j, u) with d(j, u) = ℓ come from the ℓ-search from each
 //! neighbour j with v already removed — the same search that recomputes
 //! CI(j) (a path from j through v has length ≥ ℓ + 1 to any u with d ≥ ℓ,
 //! so removing v does not change those distances). So a removal costs one
-//! ℓ-search per neighbour, plus one from v when ℓ ≥ 2 (and one per node at
-//! 2 ≤ d ≤ ℓ − 1). For ℓ ≤ 2 no CI can rise (the boundary only shrinks and
-//! degrees only fall), so once the largest CI is 0 the rest of the order
-//! is adaptive degree, taken from a bucket queue.
+//! ℓ-search per neighbour, plus one from v when ℓ ≥ 2 and `k_v` ≥ 2 (and
+//! one per node at 2 ≤ d ≤ ℓ − 1). For ℓ ≤ 2 no CI can rise (the boundary
+//! only shrinks and degrees only fall), so nodes of CI 0 leave the heap,
+//! and once it is empty the rest of the order is adaptive degree, taken
+//! from the bucket queue of `degree-adaptive` (the same tie rule).
+//!
+//! Memory layout (no effect on the order): the present nodes get local
+//! labels in breadth-first order, their adjacency rows are kept compact
+//! (a removed node is taken out of its neighbours' rows), each node's
+//! mark, degree and CI share one slot, and each search layer first reads
+//! its rows and slots in passes of independent loads so that cache misses
+//! overlap. Ties are always broken by the original index.
 //!
 //! Reinsertion: let P be the shortest prefix of the removal order after
 //! which the largest component has at most `G* = max(1, ⌊target·N⌋)`
