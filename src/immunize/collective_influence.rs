@@ -196,10 +196,12 @@ impl Searcher {
             let u = rows.adj[i];
             let x = &mut self.node[u as usize];
             let b = rows.off[u as usize] as usize;
-            let last = b + x.deg as usize - 1;
-            let p = b + rows.adj[b..=last].iter().position(|&w| w == v).unwrap_or(last - b);
-            rows.adj.swap(p, last);
-            x.deg -= 1;
+            let k = x.deg as usize;
+            // Always found in an undirected network (rows are symmetric).
+            if let Some(p) = rows.adj[b..b + k].iter().position(|&w| w == v) {
+                rows.adj.swap(b + p, b + k - 1);
+                x.deg -= 1;
+            }
         }
     }
 
@@ -303,6 +305,7 @@ fn initial_values(rows: &Rows, deg: &[u32], radius: u32) -> Vec<u64> {
 /// The Collective Influence order with reinsertion (see the module doc).
 ///
 /// `radius` is ℓ; `target` the dismantled giant size as a fraction of N.
+/// Meant for undirected networks (the ranking rejects directed ones).
 pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f64) -> Vec<u32> {
     let order = removal_phase(present, radius);
     reinsert(present, order, target)
