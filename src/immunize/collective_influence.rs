@@ -36,12 +36,11 @@
 //! and once it is empty the rest of the order is adaptive degree, taken
 //! from the bucket queue of `degree-adaptive` (the same tie rule).
 //!
-//! Memory layout (no effect on the order): the present nodes get local
-//! labels in breadth-first order, their adjacency rows are kept compact
-//! (a removed node is taken out of its neighbours' rows), each node's
-//! mark, degree and CI share one slot, and each search layer first reads
-//! its rows and slots in passes of independent loads so that cache misses
-//! overlap. Ties are always broken by the original index.
+//! Memory layout (no effect on the order): the adjacency rows of present
+//! nodes are kept compact (a removed node is taken out of its neighbours'
+//! rows), each node's mark, degree and CI share one slot, and each search
+//! layer first reads its rows and slots in passes of independent loads so
+//! that cache misses overlap.
 //!
 //! Reinsertion: let P be the shortest prefix of the removal order after
 //! which the largest component has at most `G* = max(1, ⌊target·N⌋)`
@@ -66,70 +65,35 @@ use crate::percolation::UnionFind;
 /// `mark` value of a removed node: never "unvisited".
 const DEAD: u32 = u32::MAX;
 
-/// The present nodes under local labels in breadth-first order (so that a
-/// ball's nodes and rows lie close together in memory), with adjacency
-/// rows kept compact: the row of a present node v is
-/// `adj[off[v]..off[v] + k_v]` and holds exactly its present neighbours
-/// (in no particular order), so searches never scan removed nodes.
-/// Labels only affect memory layout: ties are broken by the original
-/// index.
-struct Rows {
-    off: Vec<u64>,
+/// The adjacency rows of the present nodes, kept compact: the row of a
+/// present node v is `adj[off[v]..off[v] + k_v]` and holds exactly its
+/// present neighbours (in no particular order), so searches never scan
+/// removed nodes.
+struct Rows<'a> {
+    off: &'a [u64],
     adj: Vec<u32>,
 }
 
-/// The local labels of [`Rows`].
-struct Labels {
-    /// Original index of each local label.
-    orig: Vec<u32>,
-    /// Local label of each original index (`u32::MAX` if absent).
-    local: Vec<u32>,
-}
-
-impl Rows {
-    fn new(present: &Present<'_>) -> (Self, Labels) {
-        let net = present.net;
-        let n = present.alive.len();
-        let mut local = vec![u32::MAX; n];
-        let mut orig: Vec<u32> = Vec::new();
-        for s in 0..n as u32 {
-            if !present.alive[s as usize] || local[s as usize] != u32::MAX {
-                continue;
-            }
-            let mut i = orig.len();
-            local[s as usize] = i as u32;
-            orig.push(s);
-            while i < orig.len() {
-                let v = orig[i];
-                i += 1;
-                for &u in net.neighbors(v) {
-                    if present.alive[u as usize] && local[u as usize] == u32::MAX {
-                        local[u as usize] = orig.len() as u32;
-                        orig.push(u);
-                    }
+impl<'a> Rows<'a> {
+    fn new(present: &Present<'a>) -> Self {
+        let (off, targets, _) = present.net.out_rows();
+        let mut adj = targets.to_vec();
+        for v in 0..present.alive.len() {
+            let (a, b) = (off[v] as usize, off[v + 1] as usize);
+            let mut w = a;
+            for i in a..b {
+                if present.alive[adj[i] as usize] {
+                    adj[w] = adj[i];
+                    w += 1;
                 }
             }
         }
-        let mut off = Vec::with_capacity(orig.len() + 1);
-        let mut adj = Vec::new();
-        off.push(0);
-        for &v in &orig {
-            adj.extend(
-                net.neighbors(v).iter().map(|&u| local[u as usize]).filter(|&u| u != u32::MAX),
-            );
-            off.push(adj.len() as u64);
-        }
-        (Rows { off, adj }, Labels { orig, local })
+        Rows { off, adj }
     }
 
     fn row(&self, v: u32, k: u32) -> &[u32] {
         let a = self.off[v as usize] as usize;
         &self.adj[a..a + k as usize]
-    }
-
-    /// Local degrees (present neighbours), in local labels.
-    fn degrees(&self) -> Vec<u32> {
-        self.off.windows(2).map(|w| (w[1] - w[0]) as u32).collect()
     }
 }
 
@@ -162,8 +126,13 @@ struct Searcher {
 }
 
 impl Searcher {
-    fn new(deg: &[u32]) -> Self {
-        let node = deg.iter().map(|&k| Slot { mark: 0, deg: k, val: 0 }).collect();
+    fn new(present: &Present<'_>) -> Self {
+        let node = present
+            .alive
+            .iter()
+            .zip(&present.degree)
+            .map(|(&a, &k)| Slot { mark: if a { 0 } else { DEAD }, deg: k, val: 0 })
+            .collect();
         Searcher {
             node,
             now: 0,
@@ -189,7 +158,7 @@ impl Searcher {
     /// Removes v: marks it dead and takes it out of its neighbours' rows
     /// (lowering their degrees). v's own row and degree are left as they
     /// were, so `rows.row(v, deg(v))` still lists its neighbours.
-    fn remove(&mut self, rows: &mut Rows, v: u32) {
+    fn remove(&mut self, rows: &mut Rows<'_>, v: u32) {
         self.node[v as usize].mark = DEAD;
         let a = rows.off[v as usize] as usize;
         for i in a..a + self.deg(v) as usize {
@@ -208,7 +177,7 @@ impl Searcher {
     /// Breadth-first search from the present node `s` to depth `radius`:
     /// `f(u, slot of u)` is called once for every node u at distance
     /// exactly `radius`; the nodes nearer than that are left in `queue`.
-    fn visit(&mut self, rows: &Rows, s: u32, radius: u32, mut f: impl FnMut(u32, &mut Slot)) {
+    fn visit(&mut self, rows: &Rows<'_>, s: u32, radius: u32, mut f: impl FnMut(u32, &mut Slot)) {
         self.now += 1;
         if self.now == DEAD {
             for x in self.node.iter_mut().filter(|x| x.mark != DEAD) {
@@ -276,7 +245,7 @@ impl Searcher {
     }
 
     /// `CI_radius(s)` in the current network.
-    fn ci(&mut self, rows: &Rows, s: u32, radius: u32) -> u64 {
+    fn ci(&mut self, rows: &Rows<'_>, s: u32, radius: u32) -> u64 {
         let ks = self.deg(s) as u64;
         if ks <= 1 {
             return 0;
@@ -287,16 +256,18 @@ impl Searcher {
     }
 }
 
-/// `CI_radius` of every node (local labels), computed in parallel over
-/// blocks of nodes (the values do not depend on the split).
-fn initial_values(rows: &Rows, deg: &[u32], radius: u32) -> Vec<u64> {
-    let n = deg.len();
+/// `CI_radius` of every node (0 for absent ones), computed in parallel
+/// over blocks of nodes (the values do not depend on the split).
+fn initial_values(present: &Present<'_>, rows: &Rows<'_>, radius: u32) -> Vec<u64> {
+    let n = present.alive.len();
     let block = (n / (4 * rayon::current_num_threads().max(1))).max(4096);
     let blocks: Vec<Vec<u64>> = (0..n.div_ceil(block))
         .into_par_iter()
         .map(|b| {
-            let mut s = Searcher::new(deg);
-            (b * block..((b + 1) * block).min(n)).map(|v| s.ci(rows, v as u32, radius)).collect()
+            let mut s = Searcher::new(present);
+            (b * block..((b + 1) * block).min(n))
+                .map(|v| if present.alive[v] { s.ci(rows, v as u32, radius) } else { 0 })
+                .collect()
         })
         .collect();
     blocks.concat()
@@ -392,18 +363,16 @@ impl Heap {
 
 /// The removal phase (module doc): every present node, in CI order.
 fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
-    let (mut rows, lab) = Rows::new(present);
-    let deg = rows.degrees();
-    let n = deg.len();
-    let mut s = Searcher::new(&deg);
-    for (x, c) in s.node.iter_mut().zip(initial_values(&rows, &deg, radius)) {
+    let n = present.alive.len();
+    let mut rows = Rows::new(present);
+    let mut s = Searcher::new(present);
+    for (x, c) in s.node.iter_mut().zip(initial_values(present, &rows, radius)) {
         x.val = c;
     }
-    drop(deg);
     // For ℓ ≤ 2 no CI rises: every node with CI > 0 has exactly one
     // entry, and nodes of CI 0 need none.
     let rises = radius >= 3;
-    let entry = |s: &Searcher, v: u32| key(s.val(v), s.deg(v), lab.orig[v as usize]);
+    let entry = |s: &Searcher, v: u32| key(s.val(v), s.deg(v), v);
     let mut heap: Heap =
         (0..n as u32).filter(|&v| rises || s.val(v) > 0).map(|v| entry(&s, v)).collect();
     // ℓ ≥ 3: `bound[v]` is the key of v's heap entry that is at least v's
@@ -418,7 +387,7 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     // Recomputed CI of the removed node's neighbours.
     let mut fresh: Vec<(u32, u64)> = Vec::new();
     while let Some(top) = heap.peek() {
-        let v = lab.local[(u32::MAX - top as u32) as usize];
+        let v = u32::MAX - top as u32;
         let vi = v as usize;
         if !s.is_alive(v) {
             heap.pop();
@@ -440,7 +409,7 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
         }
         heap.pop();
         let kv = s.deg(v);
-        order.push(lab.orig[vi]);
+        order.push(v);
         if kv == 0 {
             s.remove(&mut rows, v);
             continue;
@@ -499,21 +468,19 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     // Every CI is 0 (ℓ ≤ 2: and stays 0): the rest is adaptive degree
     // (highest degree, then lower index — the heap's tie rule).
     drop(heap);
-    finish_by_degree(&mut rows, &lab, &mut s, &mut order);
+    finish_by_degree(&mut rows, &mut s, &mut order);
     order
 }
 
 /// Appends the present nodes of `s` in adaptive-degree order (highest
-/// current degree first, ties by lower original index).
-fn finish_by_degree(rows: &mut Rows, lab: &Labels, s: &mut Searcher, order: &mut Vec<u32>) {
-    let rest: Vec<(u32, u32)> = (0..s.node.len() as u32)
-        .filter(|&v| s.is_alive(v))
-        .map(|v| (lab.orig[v as usize], s.deg(v)))
-        .collect();
+/// current degree first, ties by lower index).
+fn finish_by_degree(rows: &mut Rows<'_>, s: &mut Searcher, order: &mut Vec<u32>) {
+    let rest: Vec<(u32, u32)> =
+        (0..s.node.len() as u32).filter(|&v| s.is_alive(v)).map(|v| (v, s.deg(v))).collect();
     let mut queue = LazyBuckets::new(rest.into_iter());
-    while let Some(o) = queue.pop(|o| s.deg(lab.local[o as usize])) {
-        s.remove(rows, lab.local[o as usize]);
-        order.push(o);
+    while let Some(v) = queue.pop(|v| s.deg(v)) {
+        s.remove(rows, v);
+        order.push(v);
     }
 }
 
@@ -641,8 +608,7 @@ mod tests {
         let e: Vec<(u32, u32)> = (0..4).map(|i| (i, i + 1)).collect();
         let net = Network::from_edges(5, false, e, None, WeightMerge::Max).unwrap().0;
         let p = Present::new(&net, &[]);
-        let rows = Rows::new(&p).0;
-        let mut s = Searcher::new(&rows.degrees());
+        let (rows, mut s) = (Rows::new(&p), Searcher::new(&p));
         for (i, r, want) in [(2, 2, 0), (1, 2, 1), (0, 2, 0), (2, 1, 2), (1, 0, 1)] {
             assert_eq!(s.ci(&rows, i, r), want, "CI_{r}({i})");
             assert_eq!(plain_ci(&net, &p.alive, &p.degree, i, r), want, "CI_{r}({i})");
