@@ -465,8 +465,9 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
             }
         }
     }
-    // Every CI is 0 (ℓ ≤ 2: and stays 0): the rest is adaptive degree
-    // (highest degree, then lower index — the heap's tie rule).
+    // ℓ ≤ 2: the heap is empty once every CI is 0, and they stay 0, so the
+    // rest is adaptive degree (highest degree, then lower index — the
+    // heap's tie rule). ℓ ≥ 3: nobody is left.
     drop(heap);
     finish_by_degree(&mut rows, &mut s, &mut order);
     order
