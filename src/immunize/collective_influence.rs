@@ -9,8 +9,10 @@
 //! degree, then lower index — so once every CI is 0 the order continues by
 //! degree). The initial values are computed in parallel (one ℓ-search per
 //! node; the values do not depend on the thread count). A lazy 4-ary
-//! max-heap holds the keys: a key that falls leaves the old entry, which
-//! is refreshed when it surfaces; a key that rises pushes a new entry.
+//! max-heap holds the keys `(CI, degree, −index)`, packed into one
+//! integer (64 bits when they fit): a key that falls leaves the old
+//! entry, which is refreshed when it surfaces; a key that rises pushes a
+//! new entry.
 //!
 //! Update after removing v (degree `k_v` before the removal), by the
 //! distance d = d(u, v) before the removal (Morone & Makse: only nodes
@@ -282,18 +284,54 @@ pub fn collective_influence_order(present: &Present<'_>, radius: u32, target: f6
     reinsert(present, order, target)
 }
 
-/// Heap key of v: `(CI, degree, −index)` packed into one integer.
-fn key(ci: u64, k: u32, v: u32) -> u128 {
-    ((ci as u128) << 64) | ((k as u128) << 32) | (u32::MAX - v) as u128
+/// Heap keys `(CI, degree, −index)` packed into one integer, so that the
+/// integer order is the key order.
+trait Key: Copy + Ord {
+    fn pack(ci: u64, k: u32, v: u32, layout: Layout) -> Self;
+    fn node(self, layout: Layout) -> u32;
+}
+
+/// Bit widths of the degree and index fields of a [`Key`].
+#[derive(Clone, Copy)]
+struct Layout {
+    deg_bits: u32,
+    idx_bits: u32,
+}
+
+impl Key for u128 {
+    fn pack(ci: u64, k: u32, v: u32, _: Layout) -> Self {
+        ((ci as u128) << 64) | ((k as u128) << 32) | (u32::MAX - v) as u128
+    }
+    fn node(self, _: Layout) -> u32 {
+        u32::MAX - self as u32
+    }
+}
+
+/// Half the memory of `u128` keys, used when every CI, degree and index
+/// the phase can meet fits (ℓ ≤ 2, where CI and degrees only fall).
+impl Key for u64 {
+    fn pack(ci: u64, k: u32, v: u32, l: Layout) -> Self {
+        let mask = (1u64 << l.idx_bits) - 1;
+        (ci << (l.deg_bits + l.idx_bits)) | ((k as u64) << l.idx_bits) | (mask - v as u64)
+    }
+    fn node(self, l: Layout) -> u32 {
+        let mask = (1u64 << l.idx_bits) - 1;
+        (mask - (self & mask)) as u32
+    }
+}
+
+/// Bits needed to write `x`.
+fn bits(x: u64) -> u32 {
+    64 - x.leading_zeros()
 }
 
 /// A 4-ary max-heap of keys (fewer levels, hence fewer cache misses, than
 /// a binary heap; the order of equal keys is irrelevant as keys are
 /// distinct).
-struct Heap(Vec<u128>);
+struct Heap<K>(Vec<K>);
 
-impl FromIterator<u128> for Heap {
-    fn from_iter<I: IntoIterator<Item = u128>>(it: I) -> Self {
+impl<K: Key> FromIterator<K> for Heap<K> {
+    fn from_iter<I: IntoIterator<Item = K>>(it: I) -> Self {
         let mut h = Heap(it.into_iter().collect());
         for i in (0..h.0.len().div_ceil(4)).rev() {
             h.sift_down(i);
@@ -302,12 +340,12 @@ impl FromIterator<u128> for Heap {
     }
 }
 
-impl Heap {
-    fn peek(&self) -> Option<u128> {
+impl<K: Key> Heap<K> {
+    fn peek(&self) -> Option<K> {
         self.0.first().copied()
     }
 
-    fn push(&mut self, k: u128) {
+    fn push(&mut self, k: K) {
         let mut i = self.0.len();
         self.0.push(k);
         while i > 0 {
@@ -331,7 +369,7 @@ impl Heap {
     }
 
     /// Replaces the top key by `k` (not larger).
-    fn replace_top(&mut self, k: u128) {
+    fn replace_top(&mut self, k: K) {
         self.0[0] = k;
         self.sift_down(0);
     }
@@ -364,21 +402,38 @@ impl Heap {
 /// The removal phase (module doc): every present node, in CI order.
 fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     let n = present.alive.len();
-    let mut rows = Rows::new(present);
+    let rows = Rows::new(present);
     let mut s = Searcher::new(present);
     for (x, c) in s.node.iter_mut().zip(initial_values(present, &rows, radius)) {
         x.val = c;
     }
+    let layout = Layout {
+        deg_bits: bits(present.degree.iter().copied().max().unwrap_or(0) as u64),
+        idx_bits: bits(n as u64),
+    };
+    let ci_bits = bits(s.node.iter().map(|x| x.val).max().unwrap_or(0));
+    if radius <= 2 && ci_bits.max(1) + layout.deg_bits + layout.idx_bits <= 64 {
+        removal_loop::<u64>(rows, s, radius, layout)
+    } else {
+        removal_loop::<u128>(rows, s, radius, layout)
+    }
+}
+
+/// The removal loop of [`removal_phase`] with heap keys of type `K`.
+fn removal_loop<K: Key>(mut rows: Rows<'_>, mut s: Searcher, radius: u32, l: Layout) -> Vec<u32> {
+    let n = s.node.len();
     // For ℓ ≤ 2 no CI rises: every node with CI > 0 has exactly one
     // entry, and nodes of CI 0 need none.
     let rises = radius >= 3;
-    let entry = |s: &Searcher, v: u32| key(s.val(v), s.deg(v), v);
-    let mut heap: Heap =
-        (0..n as u32).filter(|&v| rises || s.val(v) > 0).map(|v| entry(&s, v)).collect();
+    let entry = |s: &Searcher, v: u32| K::pack(s.val(v), s.deg(v), v, l);
+    let mut heap: Heap<K> = (0..n as u32)
+        .filter(|&v| s.is_alive(v) && (rises || s.val(v) > 0))
+        .map(|v| entry(&s, v))
+        .collect();
     // ℓ ≥ 3: `bound[v]` is the key of v's heap entry that is at least v's
     // current key. A key that falls pushes nothing (the entry is refreshed
     // when it surfaces); a key that rises pushes a new entry.
-    let mut bound: Vec<u128> =
+    let mut bound: Vec<K> =
         if rises { (0..n as u32).map(|v| entry(&s, v)).collect() } else { Vec::new() };
     let mut order = Vec::with_capacity(n);
     // Nodes at 2 ≤ d ≤ ℓ − 1 and at d = ℓ from the removed node.
@@ -387,7 +442,7 @@ fn removal_phase(present: &Present<'_>, radius: u32) -> Vec<u32> {
     // Recomputed CI of the removed node's neighbours.
     let mut fresh: Vec<(u32, u64)> = Vec::new();
     while let Some(top) = heap.peek() {
-        let v = u32::MAX - top as u32;
+        let v = top.node(l);
         let vi = v as usize;
         if !s.is_alive(v) {
             heap.pop();
