@@ -17,8 +17,8 @@ use rayon::prelude::*;
 
 use crate::network::{Network, NodeTable};
 use crate::percolation::{
-    budget_curve_into, nonbacktracking_radius_with, BudgetCurve, BudgetCurveConfig,
-    PercolationError, Scratch, SpectralRadius, Transmissibility,
+    budget_curve_into, nonbacktracking_radius_above, nonbacktracking_radius_with, BudgetCurve,
+    BudgetCurveConfig, PercolationError, Scratch, SpectralRadius, Transmissibility,
 };
 use crate::rng::{self, Stage};
 
@@ -189,11 +189,20 @@ pub fn radius_after(
     nonbacktracking_radius_with(net, weights, Some(&phi), 1e-6, RADIUS_ITERATIONS)
 }
 
-/// Fewest doses `k` of `seq` with `t · radius(k) < 1`, by binary search
-/// over prefixes. Monotone because more doses lower the occupation
-/// entrywise and the spectral radius of a nonnegative matrix does not
-/// increase when entries decrease (Perron–Frobenius). `None` when even the
-/// whole sequence does not reach it.
+/// Fewest doses `k` of `seq` with `t · radius(k) < 1`. Monotone because
+/// more doses lower the occupation entrywise and the spectral radius of a
+/// nonnegative matrix does not increase when entries decrease
+/// (Perron–Frobenius), so the answer is the end of a bracket search over
+/// prefixes. `None` when even the whole sequence does not reach it.
+///
+/// Each probe only has to decide the side of `1/t`
+/// ([`nonbacktracking_radius_above`]: the Collatz–Wielandt bounds usually
+/// settle it in a few iterations; when they cannot, the converged estimate
+/// decides, as a full computation would). The next probe interpolates the
+/// radius linearly inside the bracket (regula falsi with the Illinois
+/// rule), with a bisection step after any step that did not shrink the
+/// bracket to three quarters; the answer does not depend on the probe
+/// sequence, only the work does.
 pub fn doses_to_contain(
     net: &Network,
     t: f64,
@@ -202,23 +211,61 @@ pub fn doses_to_contain(
     seq: &[u32],
     efficacy: f64,
 ) -> Result<Option<u64>, PercolationError> {
-    let r = |k: usize| -> Result<f64, PercolationError> {
-        Ok(t * radius_after(net, weights, absent, seq, k, efficacy)?.estimate)
+    let level = 1.0 / t;
+    // (contained, radius estimate) after the first k doses.
+    let probe = |k: usize| -> Result<(bool, f64), PercolationError> {
+        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
+        let (above, r) =
+            nonbacktracking_radius_above(net, weights, Some(&phi), level, 1e-6, RADIUS_ITERATIONS)?;
+        let contained = match above {
+            Some(a) => !a,
+            None => t * r.estimate < 1.0,
+        };
+        Ok((contained, r.estimate))
     };
-    if r(0)? < 1.0 {
+    let (c0, r0) = probe(0)?;
+    if c0 {
         return Ok(Some(0));
     }
-    if r(seq.len())? >= 1.0 {
+    let (cn, rn) = probe(seq.len())?;
+    if !cn {
         return Ok(None);
     }
-    let (mut lo, mut hi) = (0usize, seq.len()); // r(lo) >= 1, r(hi) < 1
+    // Invariant: not contained at lo, contained at hi. `f_lo`, `f_hi`:
+    // radius − level at the ends, the retained end's value halved each
+    // time the same end is kept twice running (the Illinois rule, so the
+    // interpolation cannot stall on one side).
+    let (mut lo, mut hi) = (0usize, seq.len());
+    let (mut f_lo, mut f_hi) = (r0 - level, rn - level);
+    let mut kept: i8 = 0; // +1: lo moved last, −1: hi moved last
+    let mut bisect = false;
     while hi - lo > 1 {
-        let mid = lo + (hi - lo) / 2;
-        if r(mid)? < 1.0 {
+        let width = hi - lo;
+        let mid = if bisect || !(f_lo > 0.0 && f_hi < 0.0 && f_lo.is_finite()) {
+            lo + width / 2
+        } else {
+            let f = f_lo / (f_lo - f_hi);
+            (lo + (width as f64 * f).round() as usize).clamp(lo + 1, hi - 1)
+        };
+        let (c, r) = probe(mid)?;
+        if c {
             hi = mid;
+            f_hi = (r - level).min(-f64::MIN_POSITIVE);
+            if kept == -1 {
+                f_lo *= 0.5;
+            }
+            kept = -1;
         } else {
             lo = mid;
+            f_lo = (r - level).max(f64::MIN_POSITIVE);
+            if kept == 1 {
+                f_hi *= 0.5;
+            }
+            kept = 1;
         }
+        // A step that did not shrink the bracket to three quarters is
+        // followed by a bisection step.
+        bisect = 4 * (hi - lo) > 3 * width;
     }
     Ok(Some(hi as u64))
 }
@@ -261,4 +308,53 @@ where
             },
         )
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Plain bisection with fully converged radii (the textbook search).
+    fn bisection_reference(net: &Network, t: f64, seq: &[u32], eff: f64) -> Option<u64> {
+        let unit = Transmissibility::Uniform(1.0);
+        let r = |k: usize| t * radius_after(net, &unit, None, seq, k, eff).unwrap().estimate;
+        if r(0) < 1.0 {
+            return Some(0);
+        }
+        if r(seq.len()) >= 1.0 {
+            return None;
+        }
+        let (mut lo, mut hi) = (0, seq.len());
+        while hi - lo > 1 {
+            let mid = (lo + hi) / 2;
+            if r(mid) < 1.0 {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        Some(hi as u64)
+    }
+
+    #[test]
+    fn bracket_search_matches_bisection() {
+        let unit = Transmissibility::Uniform(1.0);
+        for seed in 0..4 {
+            let net = crate::network::generate::gnm(600, 2400, seed).unwrap();
+            let mut rng = crate::rng::stream(seed, Stage::Rule, 0);
+            let mut random: Vec<u32> = (0..600).collect();
+            crate::rng::shuffle(&mut rng, &mut random);
+            let mut by_degree: Vec<u32> = (0..600).collect();
+            by_degree.sort_by_key(|&v| (std::cmp::Reverse(net.degree(v)), v));
+            for seq in [&random, &by_degree] {
+                for (t, eff) in [(0.3, 1.0), (0.5, 0.8), (0.9, 1.0)] {
+                    assert_eq!(
+                        doses_to_contain(&net, t, &unit, None, seq, eff).unwrap(),
+                        bisection_reference(&net, t, seq, eff),
+                        "seed {seed} t {t} efficacy {eff}"
+                    );
+                }
+            }
+        }
+    }
 }

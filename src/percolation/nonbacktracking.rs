@@ -36,11 +36,13 @@ pub const NB_MAX_ITERATIONS: u32 = 20_000;
 /// The spectral radius of a non-negative matrix with certified bounds.
 #[derive(Clone, Copy, Debug, PartialEq, serde::Serialize)]
 pub struct SpectralRadius {
-    /// Point estimate, `(lower + upper) / 2`.
+    /// Point estimate, `(lower + upper) / 2` (the lower bound when a
+    /// decision ([`nonbacktracking_radius_above`]) left `upper` unknown).
     pub estimate: f64,
     /// Collatz–Wielandt lower bound.
     pub lower: f64,
-    /// Collatz–Wielandt upper bound.
+    /// Collatz–Wielandt upper bound (infinite when a decision stopped
+    /// before every component was bounded).
     pub upper: f64,
     /// Power iterations spent (the largest over the components iterated).
     pub iterations: u32,
@@ -232,6 +234,55 @@ pub fn nonbacktracking_radius_with(
     tol: f64,
     max_iterations: u32,
 ) -> Result<SpectralRadius, PercolationError> {
+    radius_iterate(net, t, occupation, tol, max_iterations, None)
+}
+
+/// Whether the radius of [`nonbacktracking_radius`] is above `level`,
+/// decided by the Collatz–Wielandt bounds: iteration on a component stops
+/// as soon as its lower bound exceeds `level` (then so does the radius,
+/// and the remaining components are not iterated; the returned `upper` is
+/// infinite) or its upper bound falls below it. `Some(true)`: certified
+/// above; `Some(false)`: certified below (every component's upper bound is
+/// below `level`); `None`: not decided within `max_iterations` per
+/// component (the radius is within `tol` of `level`, or converging
+/// slowly) — the returned bounds still hold.
+///
+/// ```
+/// use spreadplan::network::{Network, WeightMerge};
+/// use spreadplan::percolation::{nonbacktracking_radius_above, Transmissibility};
+/// let e = vec![(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)];
+/// let (k4, _) = Network::from_edges(4, false, e, None, WeightMerge::Max).unwrap();
+/// let t = Transmissibility::Uniform(1.0); // radius 2
+/// assert_eq!(nonbacktracking_radius_above(&k4, &t, None, 1.5, 1e-9, 100).unwrap().0, Some(true));
+/// assert_eq!(nonbacktracking_radius_above(&k4, &t, None, 2.5, 1e-9, 100).unwrap().0, Some(false));
+/// ```
+pub fn nonbacktracking_radius_above(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+    level: f64,
+    tol: f64,
+    max_iterations: u32,
+) -> Result<(Option<bool>, SpectralRadius), PercolationError> {
+    let r = radius_iterate(net, t, occupation, tol, max_iterations, Some(level))?;
+    let decided = if r.lower > level {
+        Some(true)
+    } else if r.upper < level {
+        Some(false)
+    } else {
+        None
+    };
+    Ok((decided, r))
+}
+
+fn radius_iterate(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+    tol: f64,
+    max_iterations: u32,
+    level: Option<f64>,
+) -> Result<SpectralRadius, PercolationError> {
     if !(tol.is_finite() && tol > 0.0) {
         return Err(PercolationError::Probability { what: "tolerance", value: tol, index: None });
     }
@@ -245,7 +296,14 @@ pub fn nonbacktracking_radius_with(
     // Per component: (lower, upper, converged, iterations).
     let mut found: Vec<(f64, f64, bool, u32)> = Vec::new();
     let mut best_lower = 0.0f64;
+    // Set when a component certified the radius above `level` before the
+    // remaining components were looked at: their upper bounds are unknown.
+    let mut cut_short = false;
     for &(a, b) in &core.components {
+        if level.is_some_and(|l| best_lower > l) {
+            cut_short = true;
+            break;
+        }
         let (sa, sb) = (core.offsets[a], core.offsets[b]);
         x[sa..sb].fill(1.0);
         let mut iterations = 0u32;
@@ -270,7 +328,8 @@ pub fn nonbacktracking_radius_with(
                 break;
             }
             let done = hi - lo <= tol * hi;
-            if done || iterations >= max_iterations {
+            let decided = level.is_some_and(|l| lo > l || hi < l);
+            if done || decided || iterations >= max_iterations {
                 best_lower = best_lower.max(lo);
                 found.push((lo, hi, done, iterations));
                 break;
@@ -292,12 +351,16 @@ pub fn nonbacktracking_radius_with(
         }
     }
     let lower = found.iter().map(|f| f.0).fold(0.0, f64::max);
-    let upper = found.iter().map(|f| f.1).fold(0.0, f64::max);
+    let mut upper = found.iter().map(|f| f.1).fold(0.0, f64::max);
+    if cut_short {
+        upper = f64::INFINITY;
+    }
     // A component whose upper bound is below the overall lower bound cannot
     // hold the maximum; its convergence does not matter.
-    let converged = found.iter().all(|&(_, hi, done, _)| done || hi <= lower);
+    let converged = !cut_short && found.iter().all(|&(_, hi, done, _)| done || hi <= lower);
     let iterations = found.iter().map(|f| f.3).max().unwrap_or(0);
-    Ok(SpectralRadius { estimate: 0.5 * (lower + upper), lower, upper, iterations, converged })
+    let estimate = if cut_short { lower } else { 0.5 * (lower + upper) };
+    Ok(SpectralRadius { estimate, lower, upper, iterations, converged })
 }
 
 /// The critical uniform transmissibility of a residual network: `1 /
