@@ -193,16 +193,15 @@ pub fn radius_after(
 /// more doses lower the occupation entrywise and the spectral radius of a
 /// nonnegative matrix does not increase when entries decrease
 /// (Perron–Frobenius), so the answer is the end of a bracket search over
-/// prefixes. `None` when even the whole sequence does not reach it.
+/// prefixes (bisection). `None` when even the whole sequence does not reach
+/// it.
 ///
 /// Each probe only has to decide the side of `1/t`
 /// ([`nonbacktracking_radius_above`]: the Collatz–Wielandt bounds usually
 /// settle it in a few iterations; when they cannot, the converged estimate
-/// decides, as a full computation would). The next probe interpolates the
-/// radius linearly inside the bracket (regula falsi with the Illinois
-/// rule), with a bisection step after any step that did not shrink the
-/// bracket to three quarters; the answer does not depend on the probe
-/// sequence, only the work does.
+/// decides, as a full computation would), starting from the previous
+/// probe's vector. (Regula falsi was tried: the early-stopped probes give
+/// too rough a radius to interpolate, and it needed more probes.)
 pub fn doses_to_contain(
     net: &Network,
     t: f64,
@@ -212,60 +211,40 @@ pub fn doses_to_contain(
     efficacy: f64,
 ) -> Result<Option<u64>, PercolationError> {
     let level = 1.0 / t;
-    // (contained, radius estimate) after the first k doses.
-    let probe = |k: usize| -> Result<(bool, f64), PercolationError> {
+    // Whether the first k doses contain spread; each probe starts from the
+    // previous probe's vector.
+    let mut warm: Vec<f64> = Vec::new();
+    let mut probe = |k: usize| -> Result<bool, PercolationError> {
         let phi = occupation(net.node_count(), absent, seq, k, efficacy);
-        let (above, r) =
-            nonbacktracking_radius_above(net, weights, Some(&phi), level, 1e-6, RADIUS_ITERATIONS)?;
-        let contained = match above {
+        let (above, r) = nonbacktracking_radius_above(
+            net,
+            weights,
+            Some(&phi),
+            level,
+            1e-6,
+            RADIUS_ITERATIONS,
+            &mut warm,
+        )?;
+        Ok(match above {
             Some(a) => !a,
             None => t * r.estimate < 1.0,
-        };
-        Ok((contained, r.estimate))
+        })
     };
-    let (c0, r0) = probe(0)?;
-    if c0 {
+    if probe(0)? {
         return Ok(Some(0));
     }
-    let (cn, rn) = probe(seq.len())?;
-    if !cn {
+    if !probe(seq.len())? {
         return Ok(None);
     }
-    // Invariant: not contained at lo, contained at hi. `f_lo`, `f_hi`:
-    // radius − level at the ends, the retained end's value halved each
-    // time the same end is kept twice running (the Illinois rule, so the
-    // interpolation cannot stall on one side).
+    // Invariant: not contained at lo, contained at hi.
     let (mut lo, mut hi) = (0usize, seq.len());
-    let (mut f_lo, mut f_hi) = (r0 - level, rn - level);
-    let mut kept: i8 = 0; // +1: lo moved last, −1: hi moved last
-    let mut bisect = false;
     while hi - lo > 1 {
-        let width = hi - lo;
-        let mid = if bisect || !(f_lo > 0.0 && f_hi < 0.0 && f_lo.is_finite()) {
-            lo + width / 2
-        } else {
-            let f = f_lo / (f_lo - f_hi);
-            (lo + (width as f64 * f).round() as usize).clamp(lo + 1, hi - 1)
-        };
-        let (c, r) = probe(mid)?;
-        if c {
+        let mid = lo + (hi - lo) / 2;
+        if probe(mid)? {
             hi = mid;
-            f_hi = (r - level).min(-f64::MIN_POSITIVE);
-            if kept == -1 {
-                f_lo *= 0.5;
-            }
-            kept = -1;
         } else {
             lo = mid;
-            f_lo = (r - level).max(f64::MIN_POSITIVE);
-            if kept == 1 {
-                f_hi *= 0.5;
-            }
-            kept = 1;
         }
-        // A step that did not shrink the bracket to three quarters is
-        // followed by a bisection step.
-        bisect = 4 * (hi - lo) > 3 * width;
     }
     Ok(Some(hi as u64))
 }

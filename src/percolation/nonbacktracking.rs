@@ -15,7 +15,8 @@
 //! transient and add only zero eigenvalues); an empty 2-core gives `ρ = 0`.
 //! The radius of the whole matrix is the maximum over the connected
 //! components of the 2-core, so each component is iterated on its own,
-//! largest first, from the all-ones vector (positive on every edge). A
+//! largest first, from the all-ones vector (positive on every edge; a
+//! decision against a level may start from a previous call's vector). A
 //! component is skipped when its bound with the all-ones vector cannot beat
 //! the best lower bound found so far. Power iteration runs on the shifted
 //! matrix `B + s·I` with `s` the current estimate (at least 1): it has the
@@ -84,6 +85,9 @@ struct Core {
     head: Vec<u32>,
     /// Node ranges (in core numbering) of the components, largest first.
     components: Vec<(usize, usize)>,
+    /// The directed edge of each slot: `2e` for `src → dst` of edge `e`,
+    /// `2e + 1` for `dst → src` (the index of a warm-start vector).
+    arc: Vec<u32>,
 }
 
 // Slot loops index targets and edge ids in step.
@@ -173,6 +177,7 @@ fn residual_core(
     let mut offsets = Vec::with_capacity(order.len() + 1);
     let mut weight = Vec::new();
     let mut slot_target: Vec<u32> = Vec::new();
+    let mut arc: Vec<u32> = Vec::new();
     let mut rev: Vec<usize> = Vec::new();
     let mut first_slot = vec![usize::MAX; net.edge_count()];
     offsets.push(0);
@@ -185,6 +190,7 @@ fn residual_core(
                 let here = weight.len();
                 weight.push(t.of(e) * phi(w));
                 slot_target.push(label[w]);
+                arc.push(2 * e as u32 + u32::from(vi as u32 > w as u32));
                 rev.push(usize::MAX);
                 if first_slot[e] == usize::MAX {
                     first_slot[e] = here;
@@ -197,7 +203,7 @@ fn residual_core(
         offsets.push(weight.len());
     }
     debug_assert!(rev.iter().all(|&r| r != usize::MAX));
-    Ok(Core { offsets, weight, rev, head: slot_target, components: comps })
+    Ok(Core { offsets, weight, rev, head: slot_target, components: comps, arc })
 }
 
 /// The spectral radius of the weighted non-backtracking matrix
@@ -234,7 +240,7 @@ pub fn nonbacktracking_radius_with(
     tol: f64,
     max_iterations: u32,
 ) -> Result<SpectralRadius, PercolationError> {
-    radius_iterate(net, t, occupation, tol, max_iterations, None)
+    radius_iterate(net, t, occupation, tol, max_iterations, None, None)
 }
 
 /// Whether the radius of [`nonbacktracking_radius`] is above `level`,
@@ -247,14 +253,25 @@ pub fn nonbacktracking_radius_with(
 /// component (the radius is within `tol` of `level`, or converging
 /// slowly) — the returned bounds still hold.
 ///
+/// `warm` carries the iteration vector from one call to the next, indexed
+/// by directed edge (`2e` for `src → dst`, `2e + 1` back): empty means
+/// start from all ones; on return it holds the final vector (0 off the
+/// core). Starting near the eigenvector of a similar residual network
+/// (the next probe of a search over dose counts) saves most iterations;
+/// the bounds are valid from any positive start, so the decision does not
+/// depend on it except through the iteration limit.
+///
 /// ```
 /// use spreadplan::network::{Network, WeightMerge};
 /// use spreadplan::percolation::{nonbacktracking_radius_above, Transmissibility};
 /// let e = vec![(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)];
 /// let (k4, _) = Network::from_edges(4, false, e, None, WeightMerge::Max).unwrap();
 /// let t = Transmissibility::Uniform(1.0); // radius 2
-/// assert_eq!(nonbacktracking_radius_above(&k4, &t, None, 1.5, 1e-9, 100).unwrap().0, Some(true));
-/// assert_eq!(nonbacktracking_radius_above(&k4, &t, None, 2.5, 1e-9, 100).unwrap().0, Some(false));
+/// let mut warm = Vec::new();
+/// let above = nonbacktracking_radius_above(&k4, &t, None, 1.5, 1e-9, 100, &mut warm).unwrap();
+/// assert_eq!(above.0, Some(true));
+/// let below = nonbacktracking_radius_above(&k4, &t, None, 2.5, 1e-9, 100, &mut warm).unwrap();
+/// assert_eq!(below.0, Some(false));
 /// ```
 pub fn nonbacktracking_radius_above(
     net: &Network,
@@ -263,8 +280,9 @@ pub fn nonbacktracking_radius_above(
     level: f64,
     tol: f64,
     max_iterations: u32,
+    warm: &mut Vec<f64>,
 ) -> Result<(Option<bool>, SpectralRadius), PercolationError> {
-    let r = radius_iterate(net, t, occupation, tol, max_iterations, Some(level))?;
+    let r = radius_iterate(net, t, occupation, tol, max_iterations, Some(level), Some(warm))?;
     let decided = if r.lower > level {
         Some(true)
     } else if r.upper < level {
@@ -282,6 +300,7 @@ fn radius_iterate(
     tol: f64,
     max_iterations: u32,
     level: Option<f64>,
+    warm: Option<&mut Vec<f64>>,
 ) -> Result<SpectralRadius, PercolationError> {
     if !(tol.is_finite() && tol > 0.0) {
         return Err(PercolationError::Probability { what: "tolerance", value: tol, index: None });
@@ -305,7 +324,17 @@ fn radius_iterate(
             break;
         }
         let (sa, sb) = (core.offsets[a], core.offsets[b]);
-        x[sa..sb].fill(1.0);
+        match warm.as_deref() {
+            Some(w) if w.len() == 2 * net.edge_count() => {
+                // A positive start near the previous vector.
+                let m = (sa..sb).map(|p| w[core.arc[p] as usize]).fold(0.0, f64::max);
+                for p in sa..sb {
+                    let v = w[core.arc[p] as usize];
+                    x[p] = if m > 0.0 && v > 0.0 { (v / m).max(1e-2) } else { 1.0 };
+                }
+            }
+            _ => x[sa..sb].fill(1.0),
+        }
         let mut iterations = 0u32;
         loop {
             // S_w = Σ_{q leaving w} weight_q x_q.
@@ -348,6 +377,13 @@ fn radius_iterate(
                 *xp = (*xp * inv).max(f64::MIN_POSITIVE);
             }
             iterations += 1;
+        }
+    }
+    if let Some(w) = warm {
+        w.clear();
+        w.resize(2 * net.edge_count(), 0.0);
+        for (p, &a) in core.arc.iter().enumerate() {
+            w[a as usize] = x[p];
         }
     }
     let lower = found.iter().map(|f| f.0).fold(0.0, f64::max);
