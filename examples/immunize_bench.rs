@@ -13,7 +13,7 @@ use spreadplan::immunize::{rank_network, removal_order, Budget, ImmunizeConfig, 
 use spreadplan::network::load::Loaded;
 use spreadplan::network::{generate, Network, NodeTable};
 use spreadplan::percolation::{
-    budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch, Transmissibility,
+    budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch, Transmissibility, UnionFind,
 };
 use spreadplan::rng::{self, Stage};
 
@@ -58,6 +58,43 @@ fn bfs_perm(net: &Network) -> Vec<u32> {
     perm
 }
 
+/// The baseline of the issue: a bare reverse-add union–find sweep per
+/// realization (every node added back in reverse of one random order,
+/// joined to its present neighbours over open edges; nothing recorded).
+fn bare_sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
+    use rayon::prelude::*;
+    let mut rng = rng::stream(7, Stage::Rule, 0);
+    let mut order: Vec<u32> = (0..net.node_count() as u32).collect();
+    rng::shuffle(&mut rng, &mut order);
+    let thr = rng::threshold(0.5);
+    let t = Instant::now();
+    let _: Vec<u32> = (0..runs)
+        .into_par_iter()
+        .map_init(
+            || UnionFind::new_inactive(net.node_count()),
+            |uf, r| {
+                let key = rng::key(7, Stage::Edge, r);
+                let mut largest = 0;
+                for _ in 0..per_run {
+                    uf.reset_inactive();
+                    for &v in order.iter().rev() {
+                        uf.activate(v);
+                        for (&u, &e) in net.neighbors(v).iter().zip(net.neighbor_edges(v)) {
+                            if uf.is_active(u) && rng::hit(thr, rng::hash(key, e as u64)) {
+                                uf.union(v, u);
+                            }
+                        }
+                    }
+                    largest = uf.largest();
+                }
+                largest
+            },
+        )
+        .collect();
+    t.elapsed().as_secs_f64()
+}
+
+/// Full-order budget curves (what the ranking runs per rule and realization).
 fn sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
     use rayon::prelude::*;
     let cfg = BudgetCurveConfig::new(Transmissibility::Uniform(0.5), 1.0, 7);
@@ -145,7 +182,14 @@ fn main() {
     for threads in [1usize, 2] {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
         pool.install(|| {
-            let bare = sweeps(&net, runs as u64, 6);
+            let bare = bare_sweeps(&net, runs as u64, 6);
+            let curves = sweeps(&net, runs as u64, 6);
+            println!(
+                "threads {threads}: {} bare reverse-add sweeps {bare:.2} s; {} full-order budget curves {curves:.2} s ({:.2}x)",
+                6 * runs,
+                6 * runs,
+                curves / bare
+            );
             for (name, g) in [("as generated", &net), ("BFS relabeled", &relabeled)] {
                 let l = Loaded {
                     network: g.clone(),

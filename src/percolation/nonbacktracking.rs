@@ -80,7 +80,7 @@ struct Core {
     /// Weight `T_{vw} φ_w` of slot `v → w`.
     weight: Vec<f64>,
     /// The reverse slot `w → v` of slot `v → w`.
-    rev: Vec<usize>,
+    rev: Vec<u32>,
     /// The head `w` (core numbering) of slot `v → w`.
     head: Vec<u32>,
     /// Node ranges (in core numbering) of the components, largest first.
@@ -178,8 +178,10 @@ fn residual_core(
     let mut weight = Vec::new();
     let mut slot_target: Vec<u32> = Vec::new();
     let mut arc: Vec<u32> = Vec::new();
-    let mut rev: Vec<usize> = Vec::new();
-    let mut first_slot = vec![usize::MAX; net.edge_count()];
+    // Slots are u32: a network has fewer than 2^31 edges in any memory
+    // this runs in (each edge id is already a u32).
+    let mut rev: Vec<u32> = Vec::new();
+    let mut first_slot = vec![u32::MAX; net.edge_count()];
     offsets.push(0);
     for &v in &order {
         let vi = v as usize;
@@ -191,18 +193,18 @@ fn residual_core(
                 weight.push(t.of(e) * phi(w));
                 slot_target.push(label[w]);
                 arc.push(2 * e as u32 + u32::from(vi as u32 > w as u32));
-                rev.push(usize::MAX);
-                if first_slot[e] == usize::MAX {
-                    first_slot[e] = here;
+                rev.push(u32::MAX);
+                if first_slot[e] == u32::MAX {
+                    first_slot[e] = here as u32;
                 } else {
                     rev[here] = first_slot[e];
-                    rev[first_slot[e]] = here;
+                    rev[first_slot[e] as usize] = here as u32;
                 }
             }
         }
         offsets.push(weight.len());
     }
-    debug_assert!(rev.iter().all(|&r| r != usize::MAX));
+    debug_assert!(rev.iter().all(|&r| r != u32::MAX));
     Ok(Core { offsets, weight, rev, head: slot_target, components: comps, arc })
 }
 
@@ -311,6 +313,7 @@ fn radius_iterate(
     }
     let mut x = vec![0.0f64; core.weight.len()];
     let mut y = vec![0.0f64; core.weight.len()];
+    let mut wx = vec![0.0f64; core.weight.len()];
     let mut node_sum: Vec<f64> = vec![0.0; core.offsets.len() - 1];
     // Per component: (lower, upper, converged, iterations).
     let mut found: Vec<(f64, f64, bool, u32)> = Vec::new();
@@ -337,16 +340,22 @@ fn radius_iterate(
         }
         let mut iterations = 0u32;
         loop {
-            // S_w = Σ_{q leaving w} weight_q x_q.
+            // S_w = Σ_{q leaving w} weight_q x_q (wx_q = weight_q x_q kept).
             for (w, sum) in node_sum.iter_mut().enumerate().take(b).skip(a) {
                 let (p, q) = (core.offsets[w], core.offsets[w + 1]);
-                *sum = (p..q).map(|k| core.weight[k] * x[k]).sum();
+                let mut acc = 0.0;
+                for k in p..q {
+                    let v = core.weight[k] * x[k];
+                    wx[k] = v;
+                    acc += v;
+                }
+                *sum = acc;
             }
             // y_{v→w} = S_w − weight_{w→v} x_{w→v}: all successors but the reverse.
             let (mut lo, mut hi) = (f64::INFINITY, 0.0f64);
             for p in sa..sb {
-                let r = core.rev[p];
-                let yp = (node_sum[core.head[p] as usize] - core.weight[r] * x[r]).max(0.0);
+                let r = core.rev[p] as usize;
+                let yp = (node_sum[core.head[p] as usize] - wx[r]).max(0.0);
                 y[p] = yp;
                 let ratio = yp / x[p];
                 lo = lo.min(ratio);
@@ -374,7 +383,7 @@ fn radius_iterate(
             let inv = 1.0 / m;
             for xp in &mut x[sa..sb] {
                 // Keep u > 0 so the bounds stay defined.
-                *xp = (*xp * inv).max(f64::MIN_POSITIVE);
+                *xp = (*xp * inv).max(1e-150);
             }
             iterations += 1;
         }
