@@ -2,7 +2,8 @@
 //! rule orders, the full ranking next to bare reverse-add sweeps in the
 //! same run, 1 vs 2 threads, a BFS locality relabeling, peak memory.
 //!
-//! `cargo run --release --example immunize_bench -- [N] [M] [RUNS] [--orders-only] [--only=RULE,…]`
+//! `cargo run --release --example immunize_bench -- [N] [M] [RUNS] [--orders-only] [--only=RULE,…]
+//! [--threads=1,2] [--layouts=generated,bfs]`
 //! (defaults 1000000 4000000 100). Prints one line per measurement; the
 //! ranking also prints how long each of its phases took.
 #![allow(clippy::print_stdout)]
@@ -179,7 +180,18 @@ fn main() {
     cfg.runs = runs;
     let perm = bfs_perm(&net);
     let relabeled = net.relabeled(&perm);
-    for threads in [1usize, 2] {
+    let list = |flag: &str, default: &str| -> Vec<String> {
+        std::env::args()
+            .find_map(|a| a.strip_prefix(flag).map(str::to_string))
+            .unwrap_or_else(|| default.to_string())
+            .split(',')
+            .map(str::to_string)
+            .collect()
+    };
+    let thread_counts: Vec<usize> =
+        list("--threads=", "1,2").iter().filter_map(|t| t.parse().ok()).collect();
+    let layouts = list("--layouts=", "generated,bfs");
+    for threads in thread_counts {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
         pool.install(|| {
             let bare = bare_sweeps(&net, runs as u64, 6);
@@ -191,6 +203,10 @@ fn main() {
                 curves / bare
             );
             for (name, g) in [("as generated", &net), ("BFS relabeled", &relabeled)] {
+                let key = if std::ptr::eq(g, &net) { "generated" } else { "bfs" };
+                if !layouts.iter().any(|l| l == key) {
+                    continue;
+                }
                 let l = Loaded {
                     network: g.clone(),
                     nodes: NodeTable::numbered(n as usize),
