@@ -104,6 +104,9 @@ impl Network {
                 return Err(BuildError::WeightCount { weights: w.len(), edges: edges.len() });
             }
         }
+        if weights.is_none() {
+            return Network::from_unweighted(n, directed, edges);
+        }
         let mut report = BuildReport::default();
         // Each edge becomes one sortable key `(a << bits) | b` with `a, b <
         // n`; sorting keys sorts by `(source, target)`. The LSD radix sort
@@ -178,6 +181,65 @@ impl Network {
         Ok((Network::from_sorted_unique(n, directed, out_edges, weights), report))
     }
 
+    /// [`Network::from_edges`] without weights: the pairs are normalized and
+    /// radix-sorted in their own buffer (which becomes the edge list), and
+    /// the sort's scratch buffer becomes the rows' column array, so the
+    /// build allocates little beyond the network itself.
+    fn from_unweighted(
+        n: u32,
+        directed: bool,
+        edges: Vec<(u32, u32)>,
+    ) -> Result<(Network, BuildReport), BuildError> {
+        let mut report = BuildReport::default();
+        for (i, &(u, v)) in edges.iter().enumerate() {
+            for x in [u, v] {
+                if x >= n {
+                    return Err(BuildError::NodeOutOfRange { edge: i, node: x, nodes: n });
+                }
+            }
+            report.self_loops_dropped += (u == v) as u64;
+        }
+        // In place (same layout): loops dropped, undirected edges as (min, max).
+        let mut kept: Vec<[u32; 2]> = edges
+            .into_iter()
+            .filter(|&(u, v)| u != v)
+            .map(|(u, v)| if directed || u < v { [u, v] } else { [v, u] })
+            .collect();
+        let bits = if n <= 1 { 1 } else { 32 - (n - 1).leading_zeros() };
+        let mut scratch = Vec::new();
+        radix_sort_with(&mut kept, &mut scratch, |e| ((e[0] as u64) << bits) | e[1] as u64, 2 * bits);
+        let before = kept.len();
+        kept.dedup();
+        report.duplicates_merged = (before - kept.len()) as u64;
+        if kept.len() > u32::MAX as usize {
+            return Err(BuildError::TooManyEdges(kept.len()));
+        }
+        kept.shrink_to_fit();
+        if directed {
+            drop(scratch);
+            return Ok((Network::from_sorted_unique(n, directed, kept, None), report));
+        }
+        let mut net = Network::empty(n, false, kept, None);
+        let (o, t, id) = rows_undirected(n as usize, &net.edges, scratch.into_flattened());
+        (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
+        Ok((net, report))
+    }
+
+    fn empty(n: u32, directed: bool, edges: Vec<[u32; 2]>, weights: Option<Vec<f32>>) -> Network {
+        Network {
+            directed,
+            n,
+            edges,
+            weights,
+            out_offsets: Vec::new(),
+            out_targets: Vec::new(),
+            out_edge_ids: Vec::new(),
+            in_offsets: Vec::new(),
+            in_sources: Vec::new(),
+            in_edge_ids: Vec::new(),
+        }
+    }
+
     /// Builds the rows from edges that are already sorted by `(source,
     /// target)`, unique, free of self-loops and (undirected) have `source <
     /// target`. Generators that produce such lists call this directly.
@@ -190,25 +252,14 @@ impl Network {
         debug_assert!(edges.windows(2).all(|w| w[0] < w[1]));
         debug_assert!(edges.iter().all(|e| directed || e[0] < e[1]));
         let nn = n as usize;
-        let mut net = Network {
-            directed,
-            n,
-            edges,
-            weights,
-            out_offsets: Vec::new(),
-            out_targets: Vec::new(),
-            out_edge_ids: Vec::new(),
-            in_offsets: Vec::new(),
-            in_sources: Vec::new(),
-            in_edge_ids: Vec::new(),
-        };
+        let mut net = Network::empty(n, directed, edges, weights);
         if directed {
             let (o, t, id) = rows(nn, &net.edges, |e| [(e[0], e[1])].into_iter());
             let (io, is, iid) = rows(nn, &net.edges, |e| [(e[1], e[0])].into_iter());
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
             (net.in_offsets, net.in_sources, net.in_edge_ids) = (io, is, iid);
         } else {
-            let (o, t, id) = rows_undirected(nn, &net.edges);
+            let (o, t, id) = rows_undirected(nn, &net.edges, Vec::new());
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
         }
         net
@@ -353,40 +404,55 @@ impl Network {
 /// inputs use the standard stable sort. O(passes · len) time, one scratch
 /// copy of `v`. Knuth, TAOCP vol. 3, §5.2.5 (radix sorting).
 fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: u32) {
+    radix_sort_with(v, &mut Vec::new(), key, bits);
+}
+
+/// [`radix_sort`] with the scratch buffer supplied and handed back (it is
+/// `v.len()` long afterwards, with unspecified contents, when the radix
+/// path ran; the caller may reuse its memory). The digit counts of all
+/// passes are gathered in one read of `v`.
+fn radix_sort_with<T: Copy + Default>(
+    v: &mut Vec<T>,
+    scratch: &mut Vec<T>,
+    key: impl Fn(&T) -> u64,
+    bits: u32,
+) {
     if v.len() < 4096 {
         v.sort_by_key(|x| key(x));
         return;
     }
     let bits = bits.clamp(1, 64);
-    let passes = bits.div_ceil(11);
-    let d = bits.div_ceil(passes);
+    let passes = bits.div_ceil(11) as usize;
+    let d = bits.div_ceil(passes as u32);
     let mask = (1u64 << d) - 1;
-    let mut src = std::mem::take(v);
-    let mut dst: Vec<T> = vec![T::default(); src.len()];
-    let mut count = vec![0usize; 1 << d];
-    for p in 0..passes {
-        let shift = p * d;
-        count.iter_mut().for_each(|c| *c = 0);
-        for x in &src {
-            count[((key(x) >> shift) & mask) as usize] += 1;
+    let width = 1usize << d;
+    let mut count = vec![0usize; passes * width];
+    for x in v.iter() {
+        let k = key(x);
+        for (p, c) in count.chunks_exact_mut(width).enumerate() {
+            c[((k >> (p as u32 * d)) & mask) as usize] += 1;
         }
-        if count.contains(&src.len()) {
+    }
+    scratch.clear();
+    scratch.resize(v.len(), T::default());
+    for (p, c) in count.chunks_exact_mut(width).enumerate() {
+        if c.contains(&v.len()) {
             continue;
         }
+        let shift = p as u32 * d;
         let mut sum = 0;
-        for c in count.iter_mut() {
+        for c in c.iter_mut() {
             let k = *c;
             *c = sum;
             sum += k;
         }
-        for x in &src {
+        for x in v.iter() {
             let b = ((key(x) >> shift) & mask) as usize;
-            dst[count[b]] = *x;
-            count[b] += 1;
+            scratch[c[b]] = *x;
+            c[b] += 1;
         }
-        std::mem::swap(&mut src, &mut dst);
+        std::mem::swap(v, scratch);
     }
-    *v = src;
 }
 
 /// Counting-sort rows of an undirected network: each edge `(a, b)`, `a <
@@ -395,17 +461,32 @@ fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: 
 /// those above (edges `(r, x)`, contiguous in the edge list, written in one
 /// sequential pass). The entries below are a transpose, scattered in
 /// passes over blocks of rows small enough that the writes stay in cache.
-fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+/// `cols` lends its memory to the column array (any length; contents are
+/// overwritten).
+fn rows_undirected(
+    n: usize,
+    edges: &[[u32; 2]],
+    mut cols: Vec<u32>,
+) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    // offsets[a + 1] counts the entries above (sequential: edges are sorted
+    // by a), below[b] those below (4-byte counters keep the random
+    // increments in cache).
     let mut offsets = vec![0u64; n + 1];
+    let mut below = vec![0u32; n];
     for e in edges {
         offsets[e[0] as usize + 1] += 1;
-        offsets[e[1] as usize + 1] += 1;
+        below[e[1] as usize] += 1;
     }
     for i in 0..n {
-        offsets[i + 1] += offsets[i];
+        offsets[i + 1] += offsets[i] + below[i] as u64;
     }
     let total = offsets[n] as usize;
-    let mut cols = vec![0u32; total];
+    if cols.len() >= total {
+        cols.truncate(total);
+        cols.shrink_to_fit();
+    } else {
+        cols = vec![0u32; total];
+    }
     let mut ids = vec![0u32; total];
     // Entries above the row: fill each row's tail backwards.
     let mut ptr = 0usize;
@@ -419,10 +500,11 @@ fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32
         cols[ptr] = e[1];
         ids[ptr] = i as u32;
     }
-    // Entries below the row, by blocks of about 8 MiB of row data.
+    // Entries below the row, by blocks of about 8 MiB of row data;
+    // below[r] now counts those written.
+    below.iter_mut().for_each(|b| *b = 0);
     let per_row = 8 * total / n.max(1) + 8;
     let block = ((8usize << 20) / per_row).max(1024);
-    let mut next: Vec<u64> = offsets[..n].to_vec();
     let mut lo = 0usize;
     while lo < n {
         let hi = (lo + block).min(n);
@@ -431,8 +513,8 @@ fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32
         for (i, e) in edges[..end].iter().enumerate() {
             let r = e[1] as usize;
             if r >= lo && r < hi {
-                let s = next[r] as usize;
-                next[r] += 1;
+                let s = offsets[r] as usize + below[r] as usize;
+                below[r] += 1;
                 cols[s] = e[0];
                 ids[s] = i as u32;
             }
@@ -551,6 +633,35 @@ mod tests {
             assert!(net.neighbors(v).windows(2).all(|w| w[0] < w[1]), "row {v}");
             for (&u, &e) in net.neighbors(v).iter().zip(net.neighbor_edges(v)) {
                 assert_eq!(net.edges()[e as usize], [u.min(v), u.max(v)]);
+            }
+        }
+    }
+
+    #[test]
+    fn unweighted_build_equals_weighted_build() {
+        // The row-first build (no weights) against the sort-first build
+        // (weights given): the same edges, rows, edge ids and counts, on a
+        // multigraph with loops and repeats in both directions, above and
+        // below the radix-sort size. A fixed pseudo-random sequence (64-bit
+        // LCG, Knuth MMIX constants).
+        let mut x = 7u64;
+        let mut next = |k: u32| {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            ((x >> 33) % k as u64) as u32
+        };
+        for (n, m) in [(1u32, 3usize), (5, 40), (300, 3000), (2000, 30_000)] {
+            let e: Vec<(u32, u32)> = (0..m).map(|_| (next(n), next(n))).collect();
+            for directed in [false, true] {
+                let (a, ra) = Network::from_edges(n, directed, e.clone(), None, WeightMerge::Max)
+                    .unwrap();
+                let ones = Some(vec![1.0f32; e.len()]);
+                let (b, rb) =
+                    Network::from_edges(n, directed, e.clone(), ones, WeightMerge::Max).unwrap();
+                assert_eq!(ra, rb, "n {n} directed {directed}");
+                assert_eq!(a.edges(), b.edges());
+                assert_eq!(a.out_rows(), b.out_rows());
+                assert_eq!(a.in_rows(), b.in_rows());
+                assert!(a.weights().is_none());
             }
         }
     }
