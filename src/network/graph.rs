@@ -207,7 +207,12 @@ impl Network {
             .collect();
         let bits = if n <= 1 { 1 } else { 32 - (n - 1).leading_zeros() };
         let mut scratch = Vec::new();
-        radix_sort_with(&mut kept, &mut scratch, |e| ((e[0] as u64) << bits) | e[1] as u64, 2 * bits);
+        radix_sort_with(
+            &mut kept,
+            &mut scratch,
+            |e| ((e[0] as u64) << bits) | e[1] as u64,
+            2 * bits,
+        );
         let before = kept.len();
         kept.dedup();
         report.duplicates_merged = (before - kept.len()) as u64;
@@ -459,14 +464,21 @@ fn radix_sort_with<T: Copy + Default>(
 /// b`, goes to row `a` as `b` and to row `b` as `a`. With edges sorted by
 /// `(a, b)`, row `r` is its entries below `r` (from edges `(c, r)`), then
 /// those above (edges `(r, x)`, contiguous in the edge list, written in one
-/// sequential pass). The entries below are a transpose, scattered in
-/// passes over blocks of rows small enough that the writes stay in cache.
-/// `cols` lends its memory to the column array (any length; contents are
+/// sequential pass). The entries below are a transpose, done as a
+/// two-level counting sort (Knuth, TAOCP vol. 3, §5.2, distribution
+/// counting; most significant digit first). `cols` lends its memory to the column array (any length; contents are
 /// overwritten).
-fn rows_undirected(
+fn rows_undirected(n: usize, edges: &[[u32; 2]], cols: Vec<u32>) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    rows_undirected_with(n, edges, cols, true)
+}
+
+/// [`rows_undirected`]; `pack = false` forces the unpacked transpose (for
+/// tests; it is otherwise taken only when the packed entries do not fit).
+fn rows_undirected_with(
     n: usize,
     edges: &[[u32; 2]],
     mut cols: Vec<u32>,
+    pack: bool,
 ) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
     // offsets[a + 1] counts the entries above (sequential: edges are sorted
     // by a), below[b] those below (4-byte counters keep the random
@@ -500,26 +512,61 @@ fn rows_undirected(
         cols[ptr] = e[1];
         ids[ptr] = i as u32;
     }
-    // Entries below the row, by blocks of about 8 MiB of row data;
-    // below[r] now counts those written.
+    // Entries below the row: edge ids are first bucketed by sections of
+    // rows (one sequential read, a few hundred write streams), then each
+    // section, whose rows fit in cache, is filled from its bucket in edge
+    // order, i.e. ascending source within every row. below[r] now counts
+    // the entries written.
+    let per = (total / n.max(1)).max(1);
+    let shift = ((32usize << 10) / per).max(1).ilog2();
+    let sections = (n >> shift) + 1;
+    let mut start = vec![0usize; sections + 1];
+    for (r, &b) in below.iter().enumerate() {
+        start[(r >> shift) + 1] += b as usize;
+    }
+    for h in 0..sections {
+        start[h + 1] += start[h];
+    }
+    let mut next = start.clone();
     below.iter_mut().for_each(|b| *b = 0);
-    let per_row = 8 * total / n.max(1) + 8;
-    let block = ((8usize << 20) / per_row).max(1024);
-    let mut lo = 0usize;
-    while lo < n {
-        let hi = (lo + block).min(n);
-        // Only edges with source < hi can point into [lo, hi).
-        let end = edges.partition_point(|e| (e[0] as usize) < hi);
-        for (i, e) in edges[..end].iter().enumerate() {
+    let mut place = |r: usize, a: u32, i: u32| {
+        let s = offsets[r] as usize + below[r] as usize;
+        below[r] += 1;
+        cols[s] = a;
+        ids[s] = i;
+    };
+    let bits = |x: usize| usize::BITS - x.saturating_sub(1).leading_zeros();
+    let (ba, bi) = (bits(n), bits(edges.len()));
+    if pack && ba + shift + bi <= 64 {
+        // Each bucket entry packs (edge id, row within the section, source),
+        // so the fill reads the buckets alone.
+        let mut bucket = vec![0u64; edges.len()];
+        for (i, e) in edges.iter().enumerate() {
             let r = e[1] as usize;
-            if r >= lo && r < hi {
-                let s = offsets[r] as usize + below[r] as usize;
-                below[r] += 1;
-                cols[s] = e[0];
-                ids[s] = i as u32;
+            let h = r >> shift;
+            let local = (r & ((1 << shift) - 1)) as u64;
+            bucket[next[h]] = ((i as u64) << (ba + shift)) | (local << ba) | e[0] as u64;
+            next[h] += 1;
+        }
+        let (amask, lmask) = ((1u64 << ba) - 1, (1u64 << shift) - 1);
+        for h in 0..sections {
+            for &x in &bucket[start[h]..start[h + 1]] {
+                let r = (h << shift) | ((x >> ba) & lmask) as usize;
+                place(r, (x & amask) as u32, (x >> (ba + shift)) as u32);
             }
         }
-        lo = hi;
+    } else {
+        // Too large to pack: bucket edge ids and read the edges again.
+        let mut bucket = vec![0u32; edges.len()];
+        for (i, e) in edges.iter().enumerate() {
+            let h = e[1] as usize >> shift;
+            bucket[next[h]] = i as u32;
+            next[h] += 1;
+        }
+        for &i in &bucket {
+            let [a, r] = edges[i as usize];
+            place(r as usize, a, i);
+        }
     }
     (offsets, cols, ids)
 }
@@ -649,11 +696,11 @@ mod tests {
             x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
             ((x >> 33) % k as u64) as u32
         };
-        for (n, m) in [(1u32, 3usize), (5, 40), (300, 3000), (2000, 30_000)] {
+        for (n, m) in [(1u32, 3usize), (5, 40), (300, 3000), (2000, 30_000), (70_000, 300_000)] {
             let e: Vec<(u32, u32)> = (0..m).map(|_| (next(n), next(n))).collect();
             for directed in [false, true] {
-                let (a, ra) = Network::from_edges(n, directed, e.clone(), None, WeightMerge::Max)
-                    .unwrap();
+                let (a, ra) =
+                    Network::from_edges(n, directed, e.clone(), None, WeightMerge::Max).unwrap();
                 let ones = Some(vec![1.0f32; e.len()]);
                 let (b, rb) =
                     Network::from_edges(n, directed, e.clone(), ones, WeightMerge::Max).unwrap();
@@ -662,8 +709,63 @@ mod tests {
                 assert_eq!(a.out_rows(), b.out_rows());
                 assert_eq!(a.in_rows(), b.in_rows());
                 assert!(a.weights().is_none());
+                // Rows against the definition: the sorted (neighbor, edge)
+                // pairs of every node, built naively from the edge list.
+                let mut naive = vec![Vec::new(); n as usize];
+                let mut naive_in = vec![Vec::new(); n as usize];
+                for (i, &[u, v]) in a.edges().iter().enumerate() {
+                    naive[u as usize].push((v, i as u32));
+                    if directed {
+                        naive_in[v as usize].push((u, i as u32));
+                    } else {
+                        naive[v as usize].push((u, i as u32));
+                    }
+                }
+                for v in 0..n {
+                    naive[v as usize].sort_unstable();
+                    naive_in[v as usize].sort_unstable();
+                    let row: Vec<(u32, u32)> = a
+                        .neighbors(v)
+                        .iter()
+                        .copied()
+                        .zip(a.neighbor_edges(v).iter().copied())
+                        .collect();
+                    assert_eq!(row, naive[v as usize], "row {v}");
+                    if directed {
+                        let row: Vec<(u32, u32)> = a
+                            .in_neighbors(v)
+                            .iter()
+                            .copied()
+                            .zip(a.in_neighbor_edges(v).iter().copied())
+                            .collect();
+                        assert_eq!(row, naive_in[v as usize], "in-row {v}");
+                    }
+                }
+                let mut sorted: Vec<[u32; 2]> = e
+                    .iter()
+                    .filter(|p| p.0 != p.1)
+                    .map(|&(u, v)| if directed || u < v { [u, v] } else { [v, u] })
+                    .collect();
+                sorted.sort_unstable();
+                sorted.dedup();
+                assert_eq!(a.edges(), &sorted[..]);
             }
         }
+    }
+
+    #[test]
+    fn packed_and_unpacked_transpose_agree() {
+        let mut x = 11u64;
+        let mut next = |k: u32| {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            ((x >> 33) % k as u64) as u32
+        };
+        let n = 50_000u32;
+        let e: Vec<(u32, u32)> = (0..200_000).map(|_| (next(n), next(n))).collect();
+        let (net, _) = Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap();
+        let unpacked = rows_undirected_with(n as usize, net.edges(), Vec::new(), false);
+        let (o, t, i) = net.out_rows();
+        assert_eq!((o, t, i), (&unpacked.0[..], &unpacked.1[..], &unpacked.2[..]));
     }
 
     #[test]
