@@ -459,6 +459,9 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
         std::fs::metadata(path).ok().map(|m| m.len())
     };
     let mut ids = Interner::default();
+    // Until the first chunk gives a row estimate, let the dense id table
+    // reach a sixteenth of the file's bytes (≤ 4 bytes of table per 16 bytes).
+    ids.nodes.allow_dense(file_len.map_or(0, |l| (l / 16) as usize).min(1 << 28));
     let mut edges: Vec<(u32, u32)> = Vec::new();
     let mut weights: Vec<f32> = Vec::new();
     let mut delim: Option<Delim> = None;
@@ -637,10 +640,12 @@ fn fast_edges(
         }
         Some((a, b, sb, j + 1))
     };
-    // Parse a batch of lines first, then look the ids up: the lookups are
-    // independent, so their cache misses overlap.
+    // Parse a batch of lines first, then look the ids up in a tight loop:
+    // the lookups are independent, so their cache misses overlap.
     const BATCH: usize = 256;
-    let mut parsed = [(0u32, 0u32, 0usize, 0usize, 0usize); BATCH];
+    let mut vals = [[0u32; 2]; BATCH];
+    let mut at = [(0usize, 0usize, 0usize); BATCH];
+    let mut looked = [(0u32, 0u32); BATCH];
     let mut i = 0usize;
     let mut n = 0u64;
     loop {
@@ -648,36 +653,50 @@ fn fast_edges(
         let mut j = i;
         while k < BATCH {
             let Some((a, b, sb, next)) = line(j) else { break };
-            parsed[k] = (a, b, j, sb, next);
+            vals[k] = [a, b];
+            at[k] = (j, sb, next);
             k += 1;
             j = next;
         }
-        for &(a, b, start, sb, next) in &parsed[..k] {
-            let (u, v) = match (ids.cached(a), ids.cached(b)) {
-                (Some(u), Some(v)) => (u, v),
-                (cu, cv) => {
-                    let tok = |at: usize| {
-                        let at = skip_blanks(at);
-                        let end = fast_id(block, at).map_or(at, |(_, e)| e);
-                        &block[at..end]
-                    };
-                    let u = match cu.map_or_else(|| ids.slow(tok(start)), Ok) {
+        let dense = ids.nodes.dense_table();
+        let get = |v: u32| dense.get(v as usize).copied().unwrap_or(NONE);
+        let mut all = true;
+        for (l, &[a, b]) in looked[..k].iter_mut().zip(&vals[..k]) {
+            *l = (get(a), get(b));
+            all &= l.0 != NONE && l.1 != NONE;
+        }
+        if all {
+            edges.extend_from_slice(&looked[..k]);
+            n += k as u64;
+            if k > 0 {
+                i = at[k - 1].2;
+            }
+        } else {
+            for (&(cu, cv), &(start, sb, next)) in looked[..k].iter().zip(&at[..k]) {
+                let tok = |at: usize| {
+                    let at = skip_blanks(at);
+                    let end = fast_id(block, at).map_or(at, |(_, e)| e);
+                    &block[at..end]
+                };
+                // An id first seen earlier in this batch is found now.
+                let u = match cu {
+                    NONE => match ids.slow(tok(start)) {
                         Ok(u) => u,
                         Err(_) => return (i, n),
-                    };
-                    let v = match cv.or_else(|| ids.cached(b)) {
-                        Some(v) => v,
-                        None => match ids.slow(tok(sb)) {
-                            Ok(v) => v,
-                            Err(_) => return (i, n),
-                        },
-                    };
-                    (u, v)
-                }
-            };
-            edges.push((u, v));
-            n += 1;
-            i = next;
+                    },
+                    u => u,
+                };
+                let v = match cv {
+                    NONE => match ids.slow(tok(sb)) {
+                        Ok(v) => v,
+                        Err(_) => return (i, n),
+                    },
+                    v => v,
+                };
+                edges.push((u, v));
+                n += 1;
+                i = next;
+            }
         }
         if k < BATCH {
             return (i, n);

@@ -224,8 +224,44 @@ impl NodeTable {
 
     /// Lets the dense table of canonical decimal ids grow to `entries`
     /// regardless of the number of ids (the loader passes its row estimate).
+    /// Canonical ids hashed earlier for being out of reach move to the dense
+    /// table when they are now within it.
     pub(crate) fn allow_dense(&mut self, entries: usize) {
-        self.ids.dense_hint = self.ids.dense_hint.max(entries);
+        let ids = &mut self.ids;
+        ids.dense_hint = ids.dense_hint.max(entries);
+        if ids.hashed == 0 {
+            return;
+        }
+        let limit = ((1 << 16) + 4 * ids.len()).max(ids.dense_hint);
+        let hashed: Vec<u32> = ids.slots.iter().copied().filter(|&i| i != NONE).collect();
+        let mut stay = Vec::new();
+        for i in hashed {
+            let value = ids.get(i as usize).and_then(|id| canonical_u32(id.as_bytes()));
+            match value.map(|v| v as usize) {
+                Some(v) if v < limit => {
+                    if v >= ids.dense.len() {
+                        ids.dense.resize(v + 1, NONE);
+                    }
+                    ids.dense[v] = i;
+                }
+                _ => stay.push(i),
+            }
+        }
+        ids.slots.iter_mut().for_each(|s| *s = NONE);
+        ids.hashed = 0;
+        for i in stay {
+            let id = ids.get(i as usize).unwrap_or_default().to_owned();
+            let s = ids.probe(&id);
+            ids.slots[s] = i;
+            ids.hashed += 1;
+        }
+    }
+
+    /// The dense table: entry `v` is the index of the canonical decimal id
+    /// with value `v`, or `u32::MAX` ("look it up by text", not "absent").
+    #[inline]
+    pub(crate) fn dense_table(&self) -> &[u32] {
+        &self.ids.dense
     }
 
     /// The index of the canonical decimal id with value `v` when it is in
@@ -326,6 +362,26 @@ mod tests {
         assert_eq!(t.index("person-300"), None);
         assert_eq!(t.index("1000000000"), None);
         assert_eq!(t.id(expect.len() as u32), "?");
+    }
+
+    #[test]
+    fn widening_the_dense_reach_keeps_every_id() {
+        let mut t = NodeTable::default();
+        let ids: Vec<String> = (0..3000u32)
+            .map(|k| if k % 5 == 0 { format!("x{k}") } else { (k * 977).to_string() })
+            .collect();
+        for id in &ids {
+            t.intern(id);
+        }
+        assert!(t.ids.hashed > 600, "some canonical ids were out of reach");
+        t.allow_dense(4_000_000);
+        assert_eq!(t.ids.hashed, 600, "only the text ids stay hashed");
+        for (v, id) in ids.iter().enumerate() {
+            assert_eq!((t.index(id), t.id(v as u32)), (Some(v as u32), id.as_str()));
+        }
+        assert_eq!(t.intern("x5"), 5);
+        assert_eq!(t.intern("977"), 1);
+        assert_eq!(t.intern("978"), 3000);
     }
 
     #[test]
