@@ -478,8 +478,14 @@ fn sort_pairs(v: &mut Vec<[u32; 2]>, scratch: &mut Vec<[u32; 2]>, bits: u32) {
     for h in 0..1 << d1 {
         start[h + 1] += start[h];
     }
-    scratch.clear();
-    scratch.resize(len, [0, 0]);
+    // A fresh zeroed buffer comes from the allocator already zero (no
+    // write pass); a lent one is only cleared and refilled.
+    if scratch.capacity() < len {
+        *scratch = vec![[0, 0]; len];
+    } else {
+        scratch.clear();
+        scratch.resize(len, [0, 0]);
+    }
     let mut next = start.clone();
     for e in v.iter() {
         let h = (key(e) >> rest) as usize;
