@@ -2,8 +2,9 @@
 //! rule orders, the full ranking next to bare reverse-add sweeps in the
 //! same run, 1 vs 2 threads, a BFS locality relabeling, peak memory.
 //!
-//! `cargo run --release --example immunize_bench -- [N] [M] [RUNS]`
-//! (defaults 1000000 4000000 100). Prints one line per measurement.
+//! `cargo run --release --example immunize_bench -- [N] [M] [RUNS] [--orders-only] [--only=RULE,…]`
+//! (defaults 1000000 4000000 100). Prints one line per measurement; the
+//! ranking also prints how long each of its phases took.
 #![allow(clippy::print_stdout)]
 
 use std::time::Instant;
@@ -12,7 +13,7 @@ use spreadplan::immunize::{rank_network, removal_order, Budget, ImmunizeConfig, 
 use spreadplan::network::load::Loaded;
 use spreadplan::network::{generate, Network, NodeTable};
 use spreadplan::percolation::{
-    budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch, Transmissibility,
+    budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch, Transmissibility, UnionFind,
 };
 use spreadplan::rng::{self, Stage};
 
@@ -57,6 +58,43 @@ fn bfs_perm(net: &Network) -> Vec<u32> {
     perm
 }
 
+/// The baseline of the issue: a bare reverse-add union–find sweep per
+/// realization (every node added back in reverse of one random order,
+/// joined to its present neighbours over open edges; nothing recorded).
+fn bare_sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
+    use rayon::prelude::*;
+    let mut rng = rng::stream(7, Stage::Rule, 0);
+    let mut order: Vec<u32> = (0..net.node_count() as u32).collect();
+    rng::shuffle(&mut rng, &mut order);
+    let thr = rng::threshold(0.5);
+    let t = Instant::now();
+    let _: Vec<u32> = (0..runs)
+        .into_par_iter()
+        .map_init(
+            || UnionFind::new_inactive(net.node_count()),
+            |uf, r| {
+                let key = rng::key(7, Stage::Edge, r);
+                let mut largest = 0;
+                for _ in 0..per_run {
+                    uf.reset_inactive();
+                    for &v in order.iter().rev() {
+                        uf.activate(v);
+                        for (&u, &e) in net.neighbors(v).iter().zip(net.neighbor_edges(v)) {
+                            if uf.is_active(u) && rng::hit(thr, rng::hash(key, e as u64)) {
+                                uf.union(v, u);
+                            }
+                        }
+                    }
+                    largest = uf.largest();
+                }
+                largest
+            },
+        )
+        .collect();
+    t.elapsed().as_secs_f64()
+}
+
+/// Full-order budget curves (what the ranking runs per rule and realization).
 fn sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
     use rayon::prelude::*;
     let cfg = BudgetCurveConfig::new(Transmissibility::Uniform(0.5), 1.0, 7);
@@ -79,14 +117,44 @@ fn sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
     t.elapsed().as_secs_f64()
 }
 
+/// Progress that records how long each phase of the ranking takes.
+#[derive(Default)]
+struct PhaseClock {
+    start: std::sync::Mutex<Option<(String, Instant)>>,
+    log: std::sync::Mutex<Vec<(String, f64)>>,
+}
+
+impl spreadplan::progress::Progress for PhaseClock {
+    fn phase(&self, name: &str, _total: u64) {
+        *self.start.lock().unwrap() = Some((name.to_string(), Instant::now()));
+    }
+    fn finish(&self) {
+        if let Some((name, t)) = self.start.lock().unwrap().take() {
+            self.log.lock().unwrap().push((name, t.elapsed().as_secs_f64()));
+        }
+    }
+}
+
 fn main() {
+    let orders_only = std::env::args().any(|a| a == "--orders-only");
+    let only: Option<String> =
+        std::env::args().find_map(|a| a.strip_prefix("--only=").map(str::to_string));
     let a: Vec<u64> = std::env::args().skip(1).filter_map(|s| s.parse().ok()).collect();
     let n = a.first().copied().unwrap_or(1_000_000) as u32;
     let m = a.get(1).copied().unwrap_or(4_000_000);
     let runs = a.get(2).copied().unwrap_or(100) as u32;
     let net = generate::gnm(n, m, 3).unwrap();
     println!("network: N={n} M={m}, runs={runs}");
-    for rule in [Rule::CoreHd, Rule::CollectiveInfluence, Rule::DegreeAdaptive] {
+    for rule in [
+        Rule::Degree,
+        Rule::DegreeAdaptive,
+        Rule::Coreness,
+        Rule::CoreHd,
+        Rule::CollectiveInfluence,
+    ] {
+        if only.as_ref().is_some_and(|o| !o.split(',').any(|r| r == rule.name())) {
+            continue;
+        }
         let t = Instant::now();
         let mut rng = rng::stream(1, Stage::Rule, 0);
         let o = removal_order(&net, rule, &RuleParams::default(), &[], &mut rng);
@@ -96,6 +164,10 @@ fn main() {
             t.elapsed().as_secs_f64(),
             o.len()
         );
+    }
+    if orders_only {
+        println!("peak memory {:.0} MB", peak_mb());
+        return;
     }
     let rules: Vec<String> =
         ["random", "degree", "degree-adaptive", "coreness", "corehd", "collective-influence"]
@@ -110,16 +182,32 @@ fn main() {
     for threads in [1usize, 2] {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
         pool.install(|| {
-            let bare = sweeps(&net, runs as u64, 6);
+            let bare = bare_sweeps(&net, runs as u64, 6);
+            let curves = sweeps(&net, runs as u64, 6);
+            println!(
+                "threads {threads}: {} bare reverse-add sweeps {bare:.2} s; {} full-order budget curves {curves:.2} s ({:.2}x)",
+                6 * runs,
+                6 * runs,
+                curves / bare
+            );
             for (name, g) in [("as generated", &net), ("BFS relabeled", &relabeled)] {
                 let l = Loaded {
                     network: g.clone(),
                     nodes: NodeTable::numbered(n as usize),
                     report: Default::default(),
                 };
+                let clock = PhaseClock::default();
                 let t = Instant::now();
-                let s = rank_network(&l, &cfg, &spreadplan::progress::Silent).unwrap();
+                let s = rank_network(&l, &cfg, &clock).unwrap();
                 let el = t.elapsed().as_secs_f64();
+                let phases: Vec<String> = clock
+                    .log
+                    .lock()
+                    .unwrap()
+                    .iter()
+                    .map(|(p, s)| format!("{p} {s:.2} s"))
+                    .collect();
+                println!("threads {threads}: phases ({name}): {}", phases.join(", "));
                 println!(
                     "threads {threads}: ranking ({name}) {el:.2} s = {:.2}x of {} bare sweeps ({bare:.2} s, as generated); best {}",
                     el / bare,
