@@ -2,7 +2,8 @@
 //! rule orders, the full ranking next to bare reverse-add sweeps in the
 //! same run, 1 vs 2 threads, a BFS locality relabeling, peak memory.
 //!
-//! `cargo run --release --example immunize_bench -- [N] [M] [RUNS] [--orders-only] [--only=RULE,…]`
+//! `cargo run --release --example immunize_bench -- [N] [M] [RUNS] [--orders-only] [--only=RULE,…]
+//! [--threads=1,2] [--layouts=generated,bfs]`
 //! (defaults 1000000 4000000 100). Prints one line per measurement; the
 //! ranking also prints how long each of its phases took.
 #![allow(clippy::print_stdout)]
@@ -13,7 +14,7 @@ use spreadplan::immunize::{rank_network, removal_order, Budget, ImmunizeConfig, 
 use spreadplan::network::load::Loaded;
 use spreadplan::network::{generate, Network, NodeTable};
 use spreadplan::percolation::{
-    budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch, Transmissibility,
+    budget_curve_into, BudgetCurve, BudgetCurveConfig, Scratch, Transmissibility, UnionFind,
 };
 use spreadplan::rng::{self, Stage};
 
@@ -58,6 +59,43 @@ fn bfs_perm(net: &Network) -> Vec<u32> {
     perm
 }
 
+/// The baseline of the issue: a bare reverse-add union–find sweep per
+/// realization (every node added back in reverse of one random order,
+/// joined to its present neighbours over open edges; nothing recorded).
+fn bare_sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
+    use rayon::prelude::*;
+    let mut rng = rng::stream(7, Stage::Rule, 0);
+    let mut order: Vec<u32> = (0..net.node_count() as u32).collect();
+    rng::shuffle(&mut rng, &mut order);
+    let thr = rng::threshold(0.5);
+    let t = Instant::now();
+    let _: Vec<u32> = (0..runs)
+        .into_par_iter()
+        .map_init(
+            || UnionFind::new_inactive(net.node_count()),
+            |uf, r| {
+                let key = rng::key(7, Stage::Edge, r);
+                let mut largest = 0;
+                for _ in 0..per_run {
+                    uf.reset_inactive();
+                    for &v in order.iter().rev() {
+                        uf.activate(v);
+                        for (&u, &e) in net.neighbors(v).iter().zip(net.neighbor_edges(v)) {
+                            if uf.is_active(u) && rng::hit(thr, rng::hash(key, e as u64)) {
+                                uf.union(v, u);
+                            }
+                        }
+                    }
+                    largest = uf.largest();
+                }
+                largest
+            },
+        )
+        .collect();
+    t.elapsed().as_secs_f64()
+}
+
+/// Full-order budget curves (what the ranking runs per rule and realization).
 fn sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
     use rayon::prelude::*;
     let cfg = BudgetCurveConfig::new(Transmissibility::Uniform(0.5), 1.0, 7);
@@ -142,11 +180,33 @@ fn main() {
     cfg.runs = runs;
     let perm = bfs_perm(&net);
     let relabeled = net.relabeled(&perm);
-    for threads in [1usize, 2] {
+    let list = |flag: &str, default: &str| -> Vec<String> {
+        std::env::args()
+            .find_map(|a| a.strip_prefix(flag).map(str::to_string))
+            .unwrap_or_else(|| default.to_string())
+            .split(',')
+            .map(str::to_string)
+            .collect()
+    };
+    let thread_counts: Vec<usize> =
+        list("--threads=", "1,2").iter().filter_map(|t| t.parse().ok()).collect();
+    let layouts = list("--layouts=", "generated,bfs");
+    for threads in thread_counts {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
         pool.install(|| {
-            let bare = sweeps(&net, runs as u64, 6);
+            let bare = bare_sweeps(&net, runs as u64, 6);
+            let curves = sweeps(&net, runs as u64, 6);
+            println!(
+                "threads {threads}: {} bare reverse-add sweeps {bare:.2} s; {} full-order budget curves {curves:.2} s ({:.2}x)",
+                6 * runs,
+                6 * runs,
+                curves / bare
+            );
             for (name, g) in [("as generated", &net), ("BFS relabeled", &relabeled)] {
+                let key = if std::ptr::eq(g, &net) { "generated" } else { "bfs" };
+                if !layouts.iter().any(|l| l == key) {
+                    continue;
+                }
                 let l = Loaded {
                     network: g.clone(),
                     nodes: NodeTable::numbered(n as usize),

@@ -17,7 +17,7 @@ pub fn degree_order(present: &Present<'_>) -> Vec<u32> {
 /// Highest *current* degree first, recomputed after each removal; ties by
 /// lower index.
 ///
-/// A lazy bucket queue ([`LazyBuckets`]): each person has one entry, in the
+/// A lazy bucket queue (`LazyBuckets`): each person has one entry, in the
 /// bucket of a degree at least their current one; a removal only lowers
 /// the neighbours' degrees, and a stale entry moves down to the bucket of
 /// the current degree when its bucket is reached. Within a bucket entries

@@ -17,8 +17,8 @@ use rayon::prelude::*;
 
 use crate::network::{Network, NodeTable};
 use crate::percolation::{
-    budget_curve_into, nonbacktracking_radius_with, BudgetCurve, BudgetCurveConfig,
-    PercolationError, Scratch, SpectralRadius, Transmissibility,
+    budget_curve_into, nonbacktracking_radius_above, nonbacktracking_radius_with, BudgetCurve,
+    BudgetCurveConfig, PercolationError, Scratch, SpectralRadius, Transmissibility,
 };
 use crate::rng::{self, Stage};
 
@@ -189,11 +189,19 @@ pub fn radius_after(
     nonbacktracking_radius_with(net, weights, Some(&phi), 1e-6, RADIUS_ITERATIONS)
 }
 
-/// Fewest doses `k` of `seq` with `t · radius(k) < 1`, by binary search
-/// over prefixes. Monotone because more doses lower the occupation
-/// entrywise and the spectral radius of a nonnegative matrix does not
-/// increase when entries decrease (Perron–Frobenius). `None` when even the
-/// whole sequence does not reach it.
+/// Fewest doses `k` of `seq` with `t · radius(k) < 1`. Monotone because
+/// more doses lower the occupation entrywise and the spectral radius of a
+/// nonnegative matrix does not increase when entries decrease
+/// (Perron–Frobenius), so the answer is the end of a bracket search over
+/// prefixes (bisection). `None` when even the whole sequence does not reach
+/// it.
+///
+/// Each probe only has to decide the side of `1/t`
+/// ([`nonbacktracking_radius_above`]: the Collatz–Wielandt bounds usually
+/// settle it in a few iterations; when they cannot, the converged estimate
+/// decides, as a full computation would), starting from the previous
+/// probe's vector. (Regula falsi was tried: the early-stopped probes give
+/// too rough a radius to interpolate, and it needed more probes.)
 pub fn doses_to_contain(
     net: &Network,
     t: f64,
@@ -202,19 +210,37 @@ pub fn doses_to_contain(
     seq: &[u32],
     efficacy: f64,
 ) -> Result<Option<u64>, PercolationError> {
-    let r = |k: usize| -> Result<f64, PercolationError> {
-        Ok(t * radius_after(net, weights, absent, seq, k, efficacy)?.estimate)
+    let level = 1.0 / t;
+    // Whether the first k doses contain spread; each probe starts from the
+    // previous probe's vector.
+    let mut warm: Vec<f64> = Vec::new();
+    let mut probe = |k: usize| -> Result<bool, PercolationError> {
+        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
+        let (above, r) = nonbacktracking_radius_above(
+            net,
+            weights,
+            Some(&phi),
+            level,
+            1e-6,
+            RADIUS_ITERATIONS,
+            &mut warm,
+        )?;
+        Ok(match above {
+            Some(a) => !a,
+            None => t * r.estimate < 1.0,
+        })
     };
-    if r(0)? < 1.0 {
+    if probe(0)? {
         return Ok(Some(0));
     }
-    if r(seq.len())? >= 1.0 {
+    if !probe(seq.len())? {
         return Ok(None);
     }
-    let (mut lo, mut hi) = (0usize, seq.len()); // r(lo) >= 1, r(hi) < 1
+    // Invariant: not contained at lo, contained at hi.
+    let (mut lo, mut hi) = (0usize, seq.len());
     while hi - lo > 1 {
         let mid = lo + (hi - lo) / 2;
-        if r(mid)? < 1.0 {
+        if probe(mid)? {
             hi = mid;
         } else {
             lo = mid;
@@ -261,4 +287,53 @@ where
             },
         )
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Plain bisection with fully converged radii (the textbook search).
+    fn bisection_reference(net: &Network, t: f64, seq: &[u32], eff: f64) -> Option<u64> {
+        let unit = Transmissibility::Uniform(1.0);
+        let r = |k: usize| t * radius_after(net, &unit, None, seq, k, eff).unwrap().estimate;
+        if r(0) < 1.0 {
+            return Some(0);
+        }
+        if r(seq.len()) >= 1.0 {
+            return None;
+        }
+        let (mut lo, mut hi) = (0, seq.len());
+        while hi - lo > 1 {
+            let mid = (lo + hi) / 2;
+            if r(mid) < 1.0 {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        Some(hi as u64)
+    }
+
+    #[test]
+    fn bracket_search_matches_bisection() {
+        let unit = Transmissibility::Uniform(1.0);
+        for seed in 0..4 {
+            let net = crate::network::generate::gnm(600, 2400, seed).unwrap();
+            let mut rng = crate::rng::stream(seed, Stage::Rule, 0);
+            let mut random: Vec<u32> = (0..600).collect();
+            crate::rng::shuffle(&mut rng, &mut random);
+            let mut by_degree: Vec<u32> = (0..600).collect();
+            by_degree.sort_by_key(|&v| (std::cmp::Reverse(net.degree(v)), v));
+            for seq in [&random, &by_degree] {
+                for (t, eff) in [(0.3, 1.0), (0.5, 0.8), (0.9, 1.0)] {
+                    assert_eq!(
+                        doses_to_contain(&net, t, &unit, None, seq, eff).unwrap(),
+                        bisection_reference(&net, t, seq, eff),
+                        "seed {seed} t {t} efficacy {eff}"
+                    );
+                }
+            }
+        }
+    }
 }

@@ -419,23 +419,81 @@ pub fn rank_network(
         (0..n).filter(|&v| !absent_slice.get(v).copied().unwrap_or(false)).count() as u64;
     let extra: Vec<u64> = res.nominal_doses.into_iter().collect();
     let grid = evaluate::curve_grid(candidates, cfg.curve_points, &extra);
-    progress.phase("realizations", cfg.runs as u64);
-    let table = evaluate::run_all(
-        net,
-        nodes,
-        &bcfg,
-        cfg.runs as u64,
-        absent,
-        res.rules.len(),
-        &order_of,
-        res.budget,
-        &grid,
-        progress,
-    )?;
+    let nr = res.rules.len();
+    let t = cfg.transmissibility;
+    struct Det {
+        seq: Vec<u32>,
+        doses: u64,
+        radius: crate::percolation::SpectralRadius,
+        contain: Option<u64>,
+    }
+    // The realizations and the thresholds (message passing on realization
+    // 0's dose sequence of each rule, and on the undosed network) are
+    // independent: one parallel job, so neither leaves a core idle while
+    // the other's last task runs. Each result is the same at any thread
+    // count.
+    progress.phase("realizations and thresholds", cfg.runs as u64 + nr as u64 + 1);
+    let thresholds = || -> Result<(Vec<Det>, crate::percolation::SpectralRadius), ImmunizeError> {
+        use rayon::prelude::*;
+        let (base, dets) = rayon::join(
+            || {
+                let r = evaluate::radius_after(net, &weight_of, absent, &[], 0, cfg.efficacy);
+                progress.advance(1);
+                r
+            },
+            || {
+                (0..nr)
+                    .into_par_iter()
+                    .map(|i| {
+                        let order = order_of(i, 0);
+                        let (seq, doses) =
+                            evaluate::dose_sequence(&order, nodes, res.budget, cfg.seed, 0);
+                        let radius = evaluate::radius_after(
+                            net,
+                            &weight_of,
+                            absent,
+                            &seq,
+                            doses as usize,
+                            cfg.efficacy,
+                        )?;
+                        let contain = evaluate::doses_to_contain(
+                            net,
+                            t,
+                            &weight_of,
+                            absent,
+                            &seq,
+                            cfg.efficacy,
+                        )?;
+                        progress.advance(1);
+                        Ok(Det { seq, doses, radius, contain })
+                    })
+                    .collect::<Result<Vec<_>, ImmunizeError>>()
+            },
+        );
+        Ok((dets?, base?))
+    };
+    let (table, thresholds) = rayon::join(
+        || {
+            evaluate::run_all(
+                net,
+                nodes,
+                &bcfg,
+                cfg.runs as u64,
+                absent,
+                res.rules.len(),
+                &order_of,
+                res.budget,
+                &grid,
+                progress,
+            )
+        },
+        thresholds,
+    );
+    let table = table?;
+    let (dets, base_radius) = thresholds?;
     progress.finish();
 
     // Per-rule sample vectors.
-    let nr = res.rules.len();
     let col = |i: usize, f: &dyn Fn(&RealizationOutcome) -> f64| -> Vec<f64> {
         table.iter().map(|row| f(&row[i])).collect()
     };
@@ -446,42 +504,9 @@ pub fn rank_network(
         let s: Vec<f64> = table.iter().map(|row| row[0].grid[0][m]).collect();
         baseline.insert(name.to_string(), Metric::Estimate(stats::mean_ci(&s)));
     }
-    let t = cfg.transmissibility;
-    let base_radius = evaluate::radius_after(net, &weight_of, absent, &[], 0, cfg.efficacy)?;
     baseline.insert("r_eff".into(), Metric::Number(t * base_radius.estimate));
     baseline.insert("below_threshold".into(), Metric::Flag(t * base_radius.upper < 1.0));
     baseline.insert("critical_transmissibility".into(), crit(base_radius.estimate));
-
-    progress.phase("thresholds", nr as u64);
-    struct Det {
-        seq: Vec<u32>,
-        doses: u64,
-        radius: crate::percolation::SpectralRadius,
-        contain: Option<u64>,
-    }
-    let dets: Vec<Det> = {
-        use rayon::prelude::*;
-        (0..nr)
-            .into_par_iter()
-            .map(|i| {
-                let order = order_of(i, 0);
-                let (seq, doses) = evaluate::dose_sequence(&order, nodes, res.budget, cfg.seed, 0);
-                let radius = evaluate::radius_after(
-                    net,
-                    &weight_of,
-                    absent,
-                    &seq,
-                    doses as usize,
-                    cfg.efficacy,
-                )?;
-                let contain =
-                    evaluate::doses_to_contain(net, t, &weight_of, absent, &seq, cfg.efficacy)?;
-                progress.advance(1);
-                Ok(Det { seq, doses, radius, contain })
-            })
-            .collect::<Result<Vec<_>, ImmunizeError>>()?
-    };
-    progress.finish();
 
     let mut outcomes: Vec<(RuleOutcome, f64)> = Vec::with_capacity(nr);
     for (i, &rule) in res.rules.iter().enumerate() {

@@ -104,6 +104,9 @@ impl Network {
                 return Err(BuildError::WeightCount { weights: w.len(), edges: edges.len() });
             }
         }
+        if weights.is_none() {
+            return Network::from_unweighted(n, directed, edges);
+        }
         let mut report = BuildReport::default();
         // Each edge becomes one sortable key `(a << bits) | b` with `a, b <
         // n`; sorting keys sorts by `(source, target)`. The LSD radix sort
@@ -178,6 +181,65 @@ impl Network {
         Ok((Network::from_sorted_unique(n, directed, out_edges, weights), report))
     }
 
+    /// [`Network::from_edges`] without weights: the pairs are normalized and
+    /// radix-sorted in their own buffer (which becomes the edge list), and
+    /// the sort's scratch buffer becomes the rows' column array, so the
+    /// build allocates little beyond the network itself.
+    fn from_unweighted(
+        n: u32,
+        directed: bool,
+        edges: Vec<(u32, u32)>,
+    ) -> Result<(Network, BuildReport), BuildError> {
+        let mut report = BuildReport::default();
+        for (i, &(u, v)) in edges.iter().enumerate() {
+            for x in [u, v] {
+                if x >= n {
+                    return Err(BuildError::NodeOutOfRange { edge: i, node: x, nodes: n });
+                }
+            }
+            report.self_loops_dropped += (u == v) as u64;
+        }
+        // In place (same layout): loops dropped, undirected edges as (min, max).
+        let mut kept: Vec<[u32; 2]> = edges
+            .into_iter()
+            .filter(|&(u, v)| u != v)
+            .map(|(u, v)| if directed || u < v { [u, v] } else { [v, u] })
+            .collect();
+        let bits = if n <= 1 { 1 } else { 32 - (n - 1).leading_zeros() };
+        let mut scratch = Vec::new();
+        sort_pairs(&mut kept, &mut scratch, bits);
+        let before = kept.len();
+        kept.dedup();
+        report.duplicates_merged = (before - kept.len()) as u64;
+        if kept.len() > u32::MAX as usize {
+            return Err(BuildError::TooManyEdges(kept.len()));
+        }
+        kept.shrink_to_fit();
+        if directed {
+            drop(scratch);
+            return Ok((Network::from_sorted_unique(n, directed, kept, None), report));
+        }
+        let mut net = Network::empty(n, false, kept, None);
+        let (o, t, id) = rows_undirected(n as usize, &net.edges, scratch.into_flattened());
+        (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
+        Ok((net, report))
+    }
+
+    fn empty(n: u32, directed: bool, edges: Vec<[u32; 2]>, weights: Option<Vec<f32>>) -> Network {
+        Network {
+            directed,
+            n,
+            edges,
+            weights,
+            out_offsets: Vec::new(),
+            out_targets: Vec::new(),
+            out_edge_ids: Vec::new(),
+            in_offsets: Vec::new(),
+            in_sources: Vec::new(),
+            in_edge_ids: Vec::new(),
+        }
+    }
+
     /// Builds the rows from edges that are already sorted by `(source,
     /// target)`, unique, free of self-loops and (undirected) have `source <
     /// target`. Generators that produce such lists call this directly.
@@ -190,25 +252,14 @@ impl Network {
         debug_assert!(edges.windows(2).all(|w| w[0] < w[1]));
         debug_assert!(edges.iter().all(|e| directed || e[0] < e[1]));
         let nn = n as usize;
-        let mut net = Network {
-            directed,
-            n,
-            edges,
-            weights,
-            out_offsets: Vec::new(),
-            out_targets: Vec::new(),
-            out_edge_ids: Vec::new(),
-            in_offsets: Vec::new(),
-            in_sources: Vec::new(),
-            in_edge_ids: Vec::new(),
-        };
+        let mut net = Network::empty(n, directed, edges, weights);
         if directed {
             let (o, t, id) = rows(nn, &net.edges, |e| [(e[0], e[1])].into_iter());
             let (io, is, iid) = rows(nn, &net.edges, |e| [(e[1], e[0])].into_iter());
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
             (net.in_offsets, net.in_sources, net.in_edge_ids) = (io, is, iid);
         } else {
-            let (o, t, id) = rows_undirected(nn, &net.edges);
+            let (o, t, id) = rows_undirected(nn, &net.edges, Vec::new());
             (net.out_offsets, net.out_targets, net.out_edge_ids) = (o, t, id);
         }
         net
@@ -353,59 +404,185 @@ impl Network {
 /// inputs use the standard stable sort. O(passes · len) time, one scratch
 /// copy of `v`. Knuth, TAOCP vol. 3, §5.2.5 (radix sorting).
 fn radix_sort<T: Copy + Default>(v: &mut Vec<T>, key: impl Fn(&T) -> u64, bits: u32) {
+    radix_sort_with(v, &mut Vec::new(), key, bits);
+}
+
+/// [`radix_sort`] with the scratch buffer supplied and handed back (it is
+/// `v.len()` long afterwards, with unspecified contents, when the radix
+/// path ran; the caller may reuse its memory). The digit counts of all
+/// passes are gathered in one read of `v`.
+fn radix_sort_with<T: Copy + Default>(
+    v: &mut Vec<T>,
+    scratch: &mut Vec<T>,
+    key: impl Fn(&T) -> u64,
+    bits: u32,
+) {
     if v.len() < 4096 {
         v.sort_by_key(|x| key(x));
         return;
     }
     let bits = bits.clamp(1, 64);
-    let passes = bits.div_ceil(11);
-    let d = bits.div_ceil(passes);
+    let passes = bits.div_ceil(11) as usize;
+    let d = bits.div_ceil(passes as u32);
     let mask = (1u64 << d) - 1;
-    let mut src = std::mem::take(v);
-    let mut dst: Vec<T> = vec![T::default(); src.len()];
-    let mut count = vec![0usize; 1 << d];
-    for p in 0..passes {
-        let shift = p * d;
-        count.iter_mut().for_each(|c| *c = 0);
-        for x in &src {
-            count[((key(x) >> shift) & mask) as usize] += 1;
+    let width = 1usize << d;
+    let mut count = vec![0usize; passes * width];
+    for x in v.iter() {
+        let k = key(x);
+        for (p, c) in count.chunks_exact_mut(width).enumerate() {
+            c[((k >> (p as u32 * d)) & mask) as usize] += 1;
         }
-        if count.contains(&src.len()) {
+    }
+    scratch.clear();
+    scratch.resize(v.len(), T::default());
+    for (p, c) in count.chunks_exact_mut(width).enumerate() {
+        if c.contains(&v.len()) {
             continue;
         }
+        let shift = p as u32 * d;
         let mut sum = 0;
-        for c in count.iter_mut() {
+        for c in c.iter_mut() {
             let k = *c;
             *c = sum;
             sum += k;
         }
-        for x in &src {
+        for x in v.iter() {
             let b = ((key(x) >> shift) & mask) as usize;
-            dst[count[b]] = *x;
-            count[b] += 1;
+            scratch[c[b]] = *x;
+            c[b] += 1;
         }
-        std::mem::swap(&mut src, &mut dst);
+        std::mem::swap(v, scratch);
     }
-    *v = src;
+}
+
+/// Sorts pairs of `bits`-bit numbers: one most-significant-digit
+/// distribution pass on the top (at most 11) key bits into `scratch`, then
+/// an LSD radix sort of each bucket, which is small enough to stay in cache
+/// (Knuth, TAOCP vol. 3, §5.2.5; the hybrid is common practice, no
+/// source). Not stable, which equal pairs do not need. `scratch` ends
+/// `v.len()` long with unspecified contents when the radix path ran.
+fn sort_pairs(v: &mut Vec<[u32; 2]>, scratch: &mut Vec<[u32; 2]>, bits: u32) {
+    let len = v.len();
+    if len < 4096 {
+        v.sort_unstable();
+        return;
+    }
+    let total = 2 * bits.clamp(1, 32);
+    let key = |e: &[u32; 2]| ((e[0] as u64) << (total / 2)) | e[1] as u64;
+    let d1 = total.min(11);
+    let rest = total - d1;
+    let mut start = vec![0usize; (1 << d1) + 1];
+    for e in v.iter() {
+        start[(key(e) >> rest) as usize + 1] += 1;
+    }
+    for h in 0..1 << d1 {
+        start[h + 1] += start[h];
+    }
+    // A fresh zeroed buffer comes from the allocator already zero (no
+    // write pass); a lent one is only cleared and refilled.
+    if scratch.capacity() < len {
+        *scratch = vec![[0, 0]; len];
+    } else {
+        scratch.clear();
+        scratch.resize(len, [0, 0]);
+    }
+    let mut next = start.clone();
+    for e in v.iter() {
+        let h = (key(e) >> rest) as usize;
+        scratch[next[h]] = *e;
+        next[h] += 1;
+    }
+    if rest == 0 {
+        std::mem::swap(v, scratch);
+        return;
+    }
+    let passes = rest.div_ceil(11);
+    let d = rest.div_ceil(passes);
+    let (mask, width) = ((1u64 << d) - 1, 1usize << d);
+    let mut count = vec![0usize; passes as usize * width];
+    for h in 0..1 << d1 {
+        let (s, t) = (start[h], start[h + 1]);
+        if t - s < 64 {
+            scratch[s..t].sort_unstable();
+            v[s..t].copy_from_slice(&scratch[s..t]);
+            continue;
+        }
+        count.iter_mut().for_each(|c| *c = 0);
+        for e in &scratch[s..t] {
+            let k = key(e);
+            for (p, c) in count.chunks_exact_mut(width).enumerate() {
+                c[((k >> (p as u32 * d)) & mask) as usize] += 1;
+            }
+        }
+        let mut in_scratch = true;
+        for (p, c) in count.chunks_exact_mut(width).enumerate() {
+            if c.contains(&(t - s)) {
+                continue;
+            }
+            let mut sum = 0;
+            for c in c.iter_mut() {
+                let k = *c;
+                *c = sum;
+                sum += k;
+            }
+            let (src, dst): (&[[u32; 2]], &mut [[u32; 2]]) = if in_scratch {
+                (&scratch[s..t], &mut v[s..t])
+            } else {
+                (&v[s..t], &mut scratch[s..t])
+            };
+            let shift = p as u32 * d;
+            for e in src {
+                let b = ((key(e) >> shift) & mask) as usize;
+                dst[c[b]] = *e;
+                c[b] += 1;
+            }
+            in_scratch = !in_scratch;
+        }
+        if in_scratch {
+            v[s..t].copy_from_slice(&scratch[s..t]);
+        }
+    }
 }
 
 /// Counting-sort rows of an undirected network: each edge `(a, b)`, `a <
 /// b`, goes to row `a` as `b` and to row `b` as `a`. With edges sorted by
 /// `(a, b)`, row `r` is its entries below `r` (from edges `(c, r)`), then
 /// those above (edges `(r, x)`, contiguous in the edge list, written in one
-/// sequential pass). The entries below are a transpose, scattered in
-/// passes over blocks of rows small enough that the writes stay in cache.
-fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+/// sequential pass). The entries below are a transpose, done as a
+/// two-level counting sort (Knuth, TAOCP vol. 3, §5.2, distribution
+/// counting; most significant digit first). `cols` lends its memory to the column array (any length; contents are
+/// overwritten).
+fn rows_undirected(n: usize, edges: &[[u32; 2]], cols: Vec<u32>) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    rows_undirected_with(n, edges, cols, true)
+}
+
+/// [`rows_undirected`]; `pack = false` forces the unpacked transpose (for
+/// tests; it is otherwise taken only when the packed entries do not fit).
+fn rows_undirected_with(
+    n: usize,
+    edges: &[[u32; 2]],
+    mut cols: Vec<u32>,
+    pack: bool,
+) -> (Vec<u64>, Vec<u32>, Vec<u32>) {
+    // offsets[a + 1] counts the entries above (sequential: edges are sorted
+    // by a), below[b] those below (4-byte counters keep the random
+    // increments in cache).
     let mut offsets = vec![0u64; n + 1];
+    let mut below = vec![0u32; n];
     for e in edges {
         offsets[e[0] as usize + 1] += 1;
-        offsets[e[1] as usize + 1] += 1;
+        below[e[1] as usize] += 1;
     }
     for i in 0..n {
-        offsets[i + 1] += offsets[i];
+        offsets[i + 1] += offsets[i] + below[i] as u64;
     }
     let total = offsets[n] as usize;
-    let mut cols = vec![0u32; total];
+    if cols.len() >= total {
+        cols.truncate(total);
+        cols.shrink_to_fit();
+    } else {
+        cols = vec![0u32; total];
+    }
     let mut ids = vec![0u32; total];
     // Entries above the row: fill each row's tail backwards.
     let mut ptr = 0usize;
@@ -419,25 +596,61 @@ fn rows_undirected(n: usize, edges: &[[u32; 2]]) -> (Vec<u64>, Vec<u32>, Vec<u32
         cols[ptr] = e[1];
         ids[ptr] = i as u32;
     }
-    // Entries below the row, by blocks of about 8 MiB of row data.
-    let per_row = 8 * total / n.max(1) + 8;
-    let block = ((8usize << 20) / per_row).max(1024);
-    let mut next: Vec<u64> = offsets[..n].to_vec();
-    let mut lo = 0usize;
-    while lo < n {
-        let hi = (lo + block).min(n);
-        // Only edges with source < hi can point into [lo, hi).
-        let end = edges.partition_point(|e| (e[0] as usize) < hi);
-        for (i, e) in edges[..end].iter().enumerate() {
+    // Entries below the row: edge ids are first bucketed by sections of
+    // rows (one sequential read, a few hundred write streams), then each
+    // section, whose rows fit in cache, is filled from its bucket in edge
+    // order, i.e. ascending source within every row. below[r] now counts
+    // the entries written.
+    let per = (total / n.max(1)).max(1);
+    let shift = ((32usize << 10) / per).max(1).ilog2();
+    let sections = (n >> shift) + 1;
+    let mut start = vec![0usize; sections + 1];
+    for (r, &b) in below.iter().enumerate() {
+        start[(r >> shift) + 1] += b as usize;
+    }
+    for h in 0..sections {
+        start[h + 1] += start[h];
+    }
+    let mut next = start.clone();
+    below.iter_mut().for_each(|b| *b = 0);
+    let mut place = |r: usize, a: u32, i: u32| {
+        let s = offsets[r] as usize + below[r] as usize;
+        below[r] += 1;
+        cols[s] = a;
+        ids[s] = i;
+    };
+    let bits = |x: usize| usize::BITS - x.saturating_sub(1).leading_zeros();
+    let (ba, bi) = (bits(n), bits(edges.len()));
+    if pack && ba + shift + bi <= 64 {
+        // Each bucket entry packs (edge id, row within the section, source),
+        // so the fill reads the buckets alone.
+        let mut bucket = vec![0u64; edges.len()];
+        for (i, e) in edges.iter().enumerate() {
             let r = e[1] as usize;
-            if r >= lo && r < hi {
-                let s = next[r] as usize;
-                next[r] += 1;
-                cols[s] = e[0];
-                ids[s] = i as u32;
+            let h = r >> shift;
+            let local = (r & ((1 << shift) - 1)) as u64;
+            bucket[next[h]] = ((i as u64) << (ba + shift)) | (local << ba) | e[0] as u64;
+            next[h] += 1;
+        }
+        let (amask, lmask) = ((1u64 << ba) - 1, (1u64 << shift) - 1);
+        for h in 0..sections {
+            for &x in &bucket[start[h]..start[h + 1]] {
+                let r = (h << shift) | ((x >> ba) & lmask) as usize;
+                place(r, (x & amask) as u32, (x >> (ba + shift)) as u32);
             }
         }
-        lo = hi;
+    } else {
+        // Too large to pack: bucket edge ids and read the edges again.
+        let mut bucket = vec![0u32; edges.len()];
+        for (i, e) in edges.iter().enumerate() {
+            let h = e[1] as usize >> shift;
+            bucket[next[h]] = i as u32;
+            next[h] += 1;
+        }
+        for &i in &bucket {
+            let [a, r] = edges[i as usize];
+            place(r as usize, a, i);
+        }
     }
     (offsets, cols, ids)
 }
@@ -553,6 +766,122 @@ mod tests {
                 assert_eq!(net.edges()[e as usize], [u.min(v), u.max(v)]);
             }
         }
+    }
+
+    #[test]
+    fn unweighted_build_equals_weighted_build() {
+        // The row-first build (no weights) against the sort-first build
+        // (weights given): the same edges, rows, edge ids and counts, on a
+        // multigraph with loops and repeats in both directions, above and
+        // below the radix-sort size. A fixed pseudo-random sequence (64-bit
+        // LCG, Knuth MMIX constants).
+        let mut x = 7u64;
+        let mut next = |k: u32| {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            ((x >> 33) % k as u64) as u32
+        };
+        for (n, m) in [(1u32, 3usize), (5, 40), (300, 3000), (2000, 30_000), (70_000, 300_000)] {
+            let e: Vec<(u32, u32)> = (0..m).map(|_| (next(n), next(n))).collect();
+            for directed in [false, true] {
+                let (a, ra) =
+                    Network::from_edges(n, directed, e.clone(), None, WeightMerge::Max).unwrap();
+                let ones = Some(vec![1.0f32; e.len()]);
+                let (b, rb) =
+                    Network::from_edges(n, directed, e.clone(), ones, WeightMerge::Max).unwrap();
+                assert_eq!(ra, rb, "n {n} directed {directed}");
+                assert_eq!(a.edges(), b.edges());
+                assert_eq!(a.out_rows(), b.out_rows());
+                assert_eq!(a.in_rows(), b.in_rows());
+                assert!(a.weights().is_none());
+                // Rows against the definition: the sorted (neighbor, edge)
+                // pairs of every node, built naively from the edge list.
+                let mut naive = vec![Vec::new(); n as usize];
+                let mut naive_in = vec![Vec::new(); n as usize];
+                for (i, &[u, v]) in a.edges().iter().enumerate() {
+                    naive[u as usize].push((v, i as u32));
+                    if directed {
+                        naive_in[v as usize].push((u, i as u32));
+                    } else {
+                        naive[v as usize].push((u, i as u32));
+                    }
+                }
+                for v in 0..n {
+                    naive[v as usize].sort_unstable();
+                    naive_in[v as usize].sort_unstable();
+                    let row: Vec<(u32, u32)> = a
+                        .neighbors(v)
+                        .iter()
+                        .copied()
+                        .zip(a.neighbor_edges(v).iter().copied())
+                        .collect();
+                    assert_eq!(row, naive[v as usize], "row {v}");
+                    if directed {
+                        let row: Vec<(u32, u32)> = a
+                            .in_neighbors(v)
+                            .iter()
+                            .copied()
+                            .zip(a.in_neighbor_edges(v).iter().copied())
+                            .collect();
+                        assert_eq!(row, naive_in[v as usize], "in-row {v}");
+                    }
+                }
+                let mut sorted: Vec<[u32; 2]> = e
+                    .iter()
+                    .filter(|p| p.0 != p.1)
+                    .map(|&(u, v)| if directed || u < v { [u, v] } else { [v, u] })
+                    .collect();
+                sorted.sort_unstable();
+                sorted.dedup();
+                assert_eq!(a.edges(), &sorted[..]);
+            }
+        }
+    }
+
+    #[test]
+    fn sort_pairs_sorts() {
+        // Uniform, skewed (most sources tiny) and few-bit inputs, with
+        // repeats; against the standard sort.
+        let mut x = 5u64;
+        let mut next = |k: u64| {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            (x >> 33) % k
+        };
+        for (n, len, skew) in [
+            (2u32, 5000usize, false),
+            (40, 9000, false),
+            (3000, 50_000, true),
+            (1 << 20, 70_000, false),
+            (u32::MAX, 20_000, false),
+        ] {
+            let bits = if n <= 1 { 1 } else { 32 - (n - 1).leading_zeros() };
+            let mut v: Vec<[u32; 2]> = (0..len)
+                .map(|_| {
+                    let a = if skew { next(n as u64).min(next(8)) } else { next(n as u64) };
+                    [a as u32, next(n as u64) as u32]
+                })
+                .collect();
+            let mut expect = v.clone();
+            expect.sort_unstable();
+            let mut scratch = Vec::new();
+            sort_pairs(&mut v, &mut scratch, bits);
+            assert_eq!(v, expect, "n {n}");
+            assert_eq!(scratch.len(), len);
+        }
+    }
+
+    #[test]
+    fn packed_and_unpacked_transpose_agree() {
+        let mut x = 11u64;
+        let mut next = |k: u32| {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            ((x >> 33) % k as u64) as u32
+        };
+        let n = 50_000u32;
+        let e: Vec<(u32, u32)> = (0..200_000).map(|_| (next(n), next(n))).collect();
+        let (net, _) = Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap();
+        let unpacked = rows_undirected_with(n as usize, net.edges(), Vec::new(), false);
+        let (o, t, i) = net.out_rows();
+        assert_eq!((o, t, i), (&unpacked.0[..], &unpacked.1[..], &unpacked.2[..]));
     }
 
     #[test]

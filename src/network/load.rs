@@ -29,14 +29,16 @@
 //! See [`load_node_table`].
 //!
 //! Speed: the file is read in 4 MiB chunks and parsed as bytes; canonical
-//! decimal ids (`0`, `17`, not `017`) are looked up through a dense cache
-//! indexed by their value, other ids through the [`NodeTable`] hash.
+//! decimal ids (`0`, `17`, not `017`) are looked up through the
+//! [`NodeTable`]'s dense table indexed by their value, other ids through
+//! its hash.
 
 use std::io::{self, BufRead, BufReader, Read, Write};
 use std::path::{Path, PathBuf};
 
 use serde::Serialize;
 
+use super::nodes::canonical_u32;
 use super::{Network, NodeTable, WeightMerge};
 
 /// Options for reading an edge list.
@@ -259,23 +261,6 @@ impl<'a> Iterator for Fields<'a> {
     }
 }
 
-/// A canonical decimal id (`0` or no leading zero, at most 9 digits).
-#[inline]
-fn canonical_u32(t: &[u8]) -> Option<u32> {
-    if t.is_empty() || t.len() > 9 || (t[0] == b'0' && t.len() > 1) {
-        return None;
-    }
-    let mut v = 0u32;
-    for &b in t {
-        let d = b.wrapping_sub(b'0');
-        if d > 9 {
-            return None;
-        }
-        v = v * 10 + d as u32;
-    }
-    Some(v)
-}
-
 /// Shows a field for an error message.
 fn show(t: &[u8]) -> String {
     const MAX: usize = 60;
@@ -288,62 +273,40 @@ fn show(t: &[u8]) -> String {
     }
 }
 
-/// Interns node ids: a dense cache for canonical decimal ids in front of
-/// the [`NodeTable`] hash, which stays the single source of truth.
+/// Interns node ids into the [`NodeTable`], with the checks and messages
+/// of the loader; canonical decimal ids first try the table's dense lookup.
 #[derive(Default)]
 struct Interner {
     nodes: NodeTable,
-    dense: Vec<u32>,
-    /// Extra room the cache may take (the expected number of rows).
-    hint: usize,
 }
 
 impl Interner {
     #[inline]
     fn cached(&self, v: u32) -> Option<u32> {
-        self.dense.get(v as usize).copied().filter(|&i| i != NONE)
+        self.nodes.dense_index(v)
     }
 
     #[inline]
     fn get(&mut self, tok: &[u8]) -> Result<u32, String> {
         let num = canonical_u32(tok);
-        if let Some(v) = num {
-            if let Some(&i) = self.dense.get(v as usize) {
-                if i != NONE {
-                    return Ok(i);
-                }
-            }
+        if let Some(i) = num.and_then(|v| self.cached(v)) {
+            return Ok(i);
         }
-        self.slow(tok, num)
+        self.slow(tok)
     }
 
     #[cold]
-    fn slow(&mut self, tok: &[u8], num: Option<u32>) -> Result<u32, String> {
+    fn slow(&mut self, tok: &[u8]) -> Result<u32, String> {
         if tok.is_empty() {
             return Err("empty node id".into());
         }
         let s = std::str::from_utf8(tok)
             .map_err(|_| format!("node id {} is not valid utf-8", show(tok)))?;
-        let i = if self.nodes.len() < MAX_NODES {
-            self.nodes.intern(s)
+        if self.nodes.len() < MAX_NODES {
+            Ok(self.nodes.intern(s))
         } else {
-            self.nodes.index(s).ok_or_else(|| format!("too many nodes: more than {MAX_NODES}"))?
-        };
-        if let Some(v) = num {
-            let v = v as usize;
-            // The cache may hold up to 4 slots per node known or one per
-            // expected row (plus a floor), so sparse huge ids cannot blow
-            // memory up.
-            let limit = ((1 << 16) + 4 * self.nodes.len()).max(self.hint);
-            if v >= self.dense.len() && v < limit {
-                let new_len = (v + 1).max(2 * self.dense.len()).min(limit);
-                self.dense.resize(new_len, NONE);
-            }
-            if let Some(slot) = self.dense.get_mut(v) {
-                *slot = i;
-            }
+            self.nodes.index(s).ok_or_else(|| format!("too many nodes: more than {MAX_NODES}"))
         }
-        Ok(i)
     }
 }
 
@@ -496,6 +459,9 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
         std::fs::metadata(path).ok().map(|m| m.len())
     };
     let mut ids = Interner::default();
+    // Until the first chunk gives a row estimate, let the dense id table
+    // reach a sixteenth of the file's bytes (≤ 4 bytes of table per 16 bytes).
+    ids.nodes.allow_dense(file_len.map_or(0, |l| (l / 16) as usize).min(1 << 28));
     let mut edges: Vec<(u32, u32)> = Vec::new();
     let mut weights: Vec<f32> = Vec::new();
     let mut delim: Option<Delim> = None;
@@ -520,7 +486,7 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
                     reserved = true;
                     if let Some(len) = file_len {
                         let est = (len as f64 / consumed as f64 * rows as f64 * 1.02) as usize;
-                        ids.hint = est.min(1 << 28);
+                        ids.nodes.allow_dense(est.min(1 << 28));
                         edges.reserve(est.saturating_sub(edges.len()));
                         if weight_idx.is_some() {
                             weights.reserve(est.saturating_sub(weights.len()));
@@ -585,7 +551,6 @@ pub fn load_edge_list(path: &Path, opts: &EdgeListOptions) -> Result<Loaded, Loa
         return Err(LoadError::Invalid { path: path.to_owned(), msg: what.into() });
     }
     let nodes = ids.nodes;
-    drop(ids.dense);
     let n = u32::try_from(nodes.len()).map_err(|_| LoadError::Invalid {
         path: path.to_owned(),
         msg: format!("too many nodes: {}", nodes.len()),
@@ -675,10 +640,12 @@ fn fast_edges(
         }
         Some((a, b, sb, j + 1))
     };
-    // Parse a batch of lines first, then look the ids up: the lookups are
-    // independent, so their cache misses overlap.
+    // Parse a batch of lines first, then look the ids up in a tight loop:
+    // the lookups are independent, so their cache misses overlap.
     const BATCH: usize = 256;
-    let mut parsed = [(0u32, 0u32, 0usize, 0usize, 0usize); BATCH];
+    let mut vals = [[0u32; 2]; BATCH];
+    let mut at = [(0usize, 0usize, 0usize); BATCH];
+    let mut looked = [(0u32, 0u32); BATCH];
     let mut i = 0usize;
     let mut n = 0u64;
     loop {
@@ -686,36 +653,50 @@ fn fast_edges(
         let mut j = i;
         while k < BATCH {
             let Some((a, b, sb, next)) = line(j) else { break };
-            parsed[k] = (a, b, j, sb, next);
+            vals[k] = [a, b];
+            at[k] = (j, sb, next);
             k += 1;
             j = next;
         }
-        for &(a, b, start, sb, next) in &parsed[..k] {
-            let (u, v) = match (ids.cached(a), ids.cached(b)) {
-                (Some(u), Some(v)) => (u, v),
-                (cu, cv) => {
-                    let tok = |at: usize| {
-                        let at = skip_blanks(at);
-                        let end = fast_id(block, at).map_or(at, |(_, e)| e);
-                        &block[at..end]
-                    };
-                    let u = match cu.map_or_else(|| ids.slow(tok(start), Some(a)), Ok) {
+        let dense = ids.nodes.dense_table();
+        let get = |v: u32| dense.get(v as usize).copied().unwrap_or(NONE);
+        let mut all = true;
+        for (l, &[a, b]) in looked[..k].iter_mut().zip(&vals[..k]) {
+            *l = (get(a), get(b));
+            all &= l.0 != NONE && l.1 != NONE;
+        }
+        if all {
+            edges.extend_from_slice(&looked[..k]);
+            n += k as u64;
+            if k > 0 {
+                i = at[k - 1].2;
+            }
+        } else {
+            for (&(cu, cv), &(start, sb, next)) in looked[..k].iter().zip(&at[..k]) {
+                let tok = |at: usize| {
+                    let at = skip_blanks(at);
+                    let end = fast_id(block, at).map_or(at, |(_, e)| e);
+                    &block[at..end]
+                };
+                // An id first seen earlier in this batch is found now.
+                let u = match cu {
+                    NONE => match ids.slow(tok(start)) {
                         Ok(u) => u,
                         Err(_) => return (i, n),
-                    };
-                    let v = match cv.or_else(|| ids.cached(b)) {
-                        Some(v) => v,
-                        None => match ids.slow(tok(sb), Some(b)) {
-                            Ok(v) => v,
-                            Err(_) => return (i, n),
-                        },
-                    };
-                    (u, v)
-                }
-            };
-            edges.push((u, v));
-            n += 1;
-            i = next;
+                    },
+                    u => u,
+                };
+                let v = match cv {
+                    NONE => match ids.slow(tok(sb)) {
+                        Ok(v) => v,
+                        Err(_) => return (i, n),
+                    },
+                    v => v,
+                };
+                edges.push((u, v));
+                n += 1;
+                i = next;
+            }
         }
         if k < BATCH {
             return (i, n);
@@ -1002,15 +983,6 @@ mod tests {
         assert_eq!(f, vec![&b"a"[..], b"b"]);
         let f: Vec<&[u8]> = Fields::new(b"a,", Delim::Byte(b',')).collect();
         assert_eq!(f, vec![&b"a"[..], b""]);
-    }
-
-    #[test]
-    fn canonical_ids() {
-        assert_eq!(canonical_u32(b"0"), Some(0));
-        assert_eq!(canonical_u32(b"123456789"), Some(123_456_789));
-        assert_eq!(canonical_u32(b"007"), None);
-        assert_eq!(canonical_u32(b"1234567890"), None);
-        assert_eq!(canonical_u32(b"1a"), None);
     }
 
     #[test]

@@ -24,8 +24,8 @@ pub use directed::{
     DirectedConfig, DirectedPoint,
 };
 pub use nonbacktracking::{
-    critical_transmissibility, nonbacktracking_radius, nonbacktracking_radius_with,
-    CriticalTransmissibility, SpectralRadius, NB_MAX_ITERATIONS,
+    critical_transmissibility, nonbacktracking_radius, nonbacktracking_radius_above,
+    nonbacktracking_radius_with, CriticalTransmissibility, SpectralRadius, NB_MAX_ITERATIONS,
 };
 pub use realization::{
     bond_realization, dose_takes, large_outbreak_min, EdgeThresholds, PercolationError,

@@ -15,7 +15,8 @@
 //! transient and add only zero eigenvalues); an empty 2-core gives `ρ = 0`.
 //! The radius of the whole matrix is the maximum over the connected
 //! components of the 2-core, so each component is iterated on its own,
-//! largest first, from the all-ones vector (positive on every edge). A
+//! largest first, from the all-ones vector (positive on every edge; a
+//! decision against a level may start from a previous call's vector). A
 //! component is skipped when its bound with the all-ones vector cannot beat
 //! the best lower bound found so far. Power iteration runs on the shifted
 //! matrix `B + s·I` with `s` the current estimate (at least 1): it has the
@@ -36,11 +37,13 @@ pub const NB_MAX_ITERATIONS: u32 = 20_000;
 /// The spectral radius of a non-negative matrix with certified bounds.
 #[derive(Clone, Copy, Debug, PartialEq, serde::Serialize)]
 pub struct SpectralRadius {
-    /// Point estimate, `(lower + upper) / 2`.
+    /// Point estimate, `(lower + upper) / 2` (the lower bound when a
+    /// decision ([`nonbacktracking_radius_above`]) left `upper` unknown).
     pub estimate: f64,
     /// Collatz–Wielandt lower bound.
     pub lower: f64,
-    /// Collatz–Wielandt upper bound.
+    /// Collatz–Wielandt upper bound (infinite when a decision stopped
+    /// before every component was bounded).
     pub upper: f64,
     /// Power iterations spent (the largest over the components iterated).
     pub iterations: u32,
@@ -77,11 +80,14 @@ struct Core {
     /// Weight `T_{vw} φ_w` of slot `v → w`.
     weight: Vec<f64>,
     /// The reverse slot `w → v` of slot `v → w`.
-    rev: Vec<usize>,
+    rev: Vec<u32>,
     /// The head `w` (core numbering) of slot `v → w`.
     head: Vec<u32>,
     /// Node ranges (in core numbering) of the components, largest first.
     components: Vec<(usize, usize)>,
+    /// The directed edge of each slot: `2e` for `src → dst` of edge `e`,
+    /// `2e + 1` for `dst → src` (the index of a warm-start vector).
+    arc: Vec<u32>,
 }
 
 // Slot loops index targets and edge ids in step.
@@ -171,8 +177,11 @@ fn residual_core(
     let mut offsets = Vec::with_capacity(order.len() + 1);
     let mut weight = Vec::new();
     let mut slot_target: Vec<u32> = Vec::new();
-    let mut rev: Vec<usize> = Vec::new();
-    let mut first_slot = vec![usize::MAX; net.edge_count()];
+    let mut arc: Vec<u32> = Vec::new();
+    // Slots are u32: a network has fewer than 2^31 edges in any memory
+    // this runs in (each edge id is already a u32).
+    let mut rev: Vec<u32> = Vec::new();
+    let mut first_slot = vec![u32::MAX; net.edge_count()];
     offsets.push(0);
     for &v in &order {
         let vi = v as usize;
@@ -183,19 +192,20 @@ fn residual_core(
                 let here = weight.len();
                 weight.push(t.of(e) * phi(w));
                 slot_target.push(label[w]);
-                rev.push(usize::MAX);
-                if first_slot[e] == usize::MAX {
-                    first_slot[e] = here;
+                arc.push(2 * e as u32 + u32::from(vi as u32 > w as u32));
+                rev.push(u32::MAX);
+                if first_slot[e] == u32::MAX {
+                    first_slot[e] = here as u32;
                 } else {
                     rev[here] = first_slot[e];
-                    rev[first_slot[e]] = here;
+                    rev[first_slot[e] as usize] = here as u32;
                 }
             }
         }
         offsets.push(weight.len());
     }
-    debug_assert!(rev.iter().all(|&r| r != usize::MAX));
-    Ok(Core { offsets, weight, rev, head: slot_target, components: comps })
+    debug_assert!(rev.iter().all(|&r| r != u32::MAX));
+    Ok(Core { offsets, weight, rev, head: slot_target, components: comps, arc })
 }
 
 /// The spectral radius of the weighted non-backtracking matrix
@@ -232,6 +242,68 @@ pub fn nonbacktracking_radius_with(
     tol: f64,
     max_iterations: u32,
 ) -> Result<SpectralRadius, PercolationError> {
+    radius_iterate(net, t, occupation, tol, max_iterations, None, None)
+}
+
+/// Whether the radius of [`nonbacktracking_radius`] is above `level`,
+/// decided by the Collatz–Wielandt bounds: iteration on a component stops
+/// as soon as its lower bound exceeds `level` (then so does the radius,
+/// and the remaining components are not iterated; the returned `upper` is
+/// infinite) or its upper bound falls below it. `Some(true)`: certified
+/// above; `Some(false)`: certified below (every component's upper bound is
+/// below `level`); `None`: not decided within `max_iterations` per
+/// component (the radius is within `tol` of `level`, or converging
+/// slowly) — the returned bounds still hold.
+///
+/// `warm` carries the iteration vector from one call to the next, indexed
+/// by directed edge (`2e` for `src → dst`, `2e + 1` back): empty means
+/// start from all ones; on return it holds the final vector (0 off the
+/// core). Starting near the eigenvector of a similar residual network
+/// (the next probe of a search over dose counts) saves most iterations;
+/// the bounds are valid from any positive start, so the decision does not
+/// depend on it except through the iteration limit.
+///
+/// ```
+/// use spreadplan::network::{Network, WeightMerge};
+/// use spreadplan::percolation::{nonbacktracking_radius_above, Transmissibility};
+/// let e = vec![(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)];
+/// let (k4, _) = Network::from_edges(4, false, e, None, WeightMerge::Max).unwrap();
+/// let t = Transmissibility::Uniform(1.0); // radius 2
+/// let mut warm = Vec::new();
+/// let above = nonbacktracking_radius_above(&k4, &t, None, 1.5, 1e-9, 100, &mut warm).unwrap();
+/// assert_eq!(above.0, Some(true));
+/// let below = nonbacktracking_radius_above(&k4, &t, None, 2.5, 1e-9, 100, &mut warm).unwrap();
+/// assert_eq!(below.0, Some(false));
+/// ```
+pub fn nonbacktracking_radius_above(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+    level: f64,
+    tol: f64,
+    max_iterations: u32,
+    warm: &mut Vec<f64>,
+) -> Result<(Option<bool>, SpectralRadius), PercolationError> {
+    let r = radius_iterate(net, t, occupation, tol, max_iterations, Some(level), Some(warm))?;
+    let decided = if r.lower > level {
+        Some(true)
+    } else if r.upper < level {
+        Some(false)
+    } else {
+        None
+    };
+    Ok((decided, r))
+}
+
+fn radius_iterate(
+    net: &Network,
+    t: &Transmissibility,
+    occupation: Option<&[f64]>,
+    tol: f64,
+    max_iterations: u32,
+    level: Option<f64>,
+    warm: Option<&mut Vec<f64>>,
+) -> Result<SpectralRadius, PercolationError> {
     if !(tol.is_finite() && tol > 0.0) {
         return Err(PercolationError::Probability { what: "tolerance", value: tol, index: None });
     }
@@ -241,25 +313,49 @@ pub fn nonbacktracking_radius_with(
     }
     let mut x = vec![0.0f64; core.weight.len()];
     let mut y = vec![0.0f64; core.weight.len()];
+    let mut wx = vec![0.0f64; core.weight.len()];
     let mut node_sum: Vec<f64> = vec![0.0; core.offsets.len() - 1];
     // Per component: (lower, upper, converged, iterations).
     let mut found: Vec<(f64, f64, bool, u32)> = Vec::new();
     let mut best_lower = 0.0f64;
+    // Set when a component certified the radius above `level` before the
+    // remaining components were looked at: their upper bounds are unknown.
+    let mut cut_short = false;
     for &(a, b) in &core.components {
+        if level.is_some_and(|l| best_lower > l) {
+            cut_short = true;
+            break;
+        }
         let (sa, sb) = (core.offsets[a], core.offsets[b]);
-        x[sa..sb].fill(1.0);
+        match warm.as_deref() {
+            Some(w) if w.len() == 2 * net.edge_count() => {
+                // A positive start near the previous vector.
+                let m = (sa..sb).map(|p| w[core.arc[p] as usize]).fold(0.0, f64::max);
+                for p in sa..sb {
+                    let v = w[core.arc[p] as usize];
+                    x[p] = if m > 0.0 && v > 0.0 { (v / m).max(1e-2) } else { 1.0 };
+                }
+            }
+            _ => x[sa..sb].fill(1.0),
+        }
         let mut iterations = 0u32;
         loop {
-            // S_w = Σ_{q leaving w} weight_q x_q.
+            // S_w = Σ_{q leaving w} weight_q x_q (wx_q = weight_q x_q kept).
             for (w, sum) in node_sum.iter_mut().enumerate().take(b).skip(a) {
                 let (p, q) = (core.offsets[w], core.offsets[w + 1]);
-                *sum = (p..q).map(|k| core.weight[k] * x[k]).sum();
+                let mut acc = 0.0;
+                for k in p..q {
+                    let v = core.weight[k] * x[k];
+                    wx[k] = v;
+                    acc += v;
+                }
+                *sum = acc;
             }
             // y_{v→w} = S_w − weight_{w→v} x_{w→v}: all successors but the reverse.
             let (mut lo, mut hi) = (f64::INFINITY, 0.0f64);
             for p in sa..sb {
-                let r = core.rev[p];
-                let yp = (node_sum[core.head[p] as usize] - core.weight[r] * x[r]).max(0.0);
+                let r = core.rev[p] as usize;
+                let yp = (node_sum[core.head[p] as usize] - wx[r]).max(0.0);
                 y[p] = yp;
                 let ratio = yp / x[p];
                 lo = lo.min(ratio);
@@ -270,7 +366,8 @@ pub fn nonbacktracking_radius_with(
                 break;
             }
             let done = hi - lo <= tol * hi;
-            if done || iterations >= max_iterations {
+            let decided = level.is_some_and(|l| lo > l || hi < l);
+            if done || decided || iterations >= max_iterations {
                 best_lower = best_lower.max(lo);
                 found.push((lo, hi, done, iterations));
                 break;
@@ -286,18 +383,29 @@ pub fn nonbacktracking_radius_with(
             let inv = 1.0 / m;
             for xp in &mut x[sa..sb] {
                 // Keep u > 0 so the bounds stay defined.
-                *xp = (*xp * inv).max(f64::MIN_POSITIVE);
+                *xp = (*xp * inv).max(1e-150);
             }
             iterations += 1;
         }
     }
+    if let Some(w) = warm {
+        w.clear();
+        w.resize(2 * net.edge_count(), 0.0);
+        for (p, &a) in core.arc.iter().enumerate() {
+            w[a as usize] = x[p];
+        }
+    }
     let lower = found.iter().map(|f| f.0).fold(0.0, f64::max);
-    let upper = found.iter().map(|f| f.1).fold(0.0, f64::max);
+    let mut upper = found.iter().map(|f| f.1).fold(0.0, f64::max);
+    if cut_short {
+        upper = f64::INFINITY;
+    }
     // A component whose upper bound is below the overall lower bound cannot
     // hold the maximum; its convergence does not matter.
-    let converged = found.iter().all(|&(_, hi, done, _)| done || hi <= lower);
+    let converged = !cut_short && found.iter().all(|&(_, hi, done, _)| done || hi <= lower);
     let iterations = found.iter().map(|f| f.3).max().unwrap_or(0);
-    Ok(SpectralRadius { estimate: 0.5 * (lower + upper), lower, upper, iterations, converged })
+    let estimate = if cut_short { lower } else { 0.5 * (lower + upper) };
+    Ok(SpectralRadius { estimate, lower, upper, iterations, converged })
 }
 
 /// The critical uniform transmissibility of a residual network: `1 /
