@@ -3,7 +3,7 @@
 //! same run, 1 vs 2 threads, a BFS locality relabeling, peak memory.
 //!
 //! `cargo run --release --example immunize_bench -- [N] [M] [RUNS] [--orders-only] [--only=RULE,…]
-//! [--threads=1,2] [--layouts=generated,bfs]`
+//! [--threads=1,2] [--layouts=generated,bfs] [--no-curve-baseline]`
 //! (defaults 1000000 4000000 100). Prints one line per measurement; the
 //! ranking also prints how long each of its phases took.
 #![allow(clippy::print_stdout)]
@@ -195,7 +195,11 @@ fn main() {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
         pool.install(|| {
             let bare = bare_sweeps(&net, runs as u64, 6);
-            let curves = sweeps(&net, runs as u64, 6);
+            let curves = if std::env::args().any(|a| a == "--no-curve-baseline") {
+                f64::NAN
+            } else {
+                sweeps(&net, runs as u64, 6)
+            };
             println!(
                 "threads {threads}: {} bare reverse-add sweeps {bare:.2} s; {} full-order budget curves {curves:.2} s ({:.2}x)",
                 6 * runs,
