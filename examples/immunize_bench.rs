@@ -59,14 +59,20 @@ fn bfs_perm(net: &Network) -> Vec<u32> {
     perm
 }
 
+/// Every node once, in one fixed random order (the baselines' order).
+fn shuffled(net: &Network) -> Vec<u32> {
+    let mut rng = rng::stream(7, Stage::Rule, 0);
+    let mut order: Vec<u32> = (0..net.node_count() as u32).collect();
+    rng::shuffle(&mut rng, &mut order);
+    order
+}
+
 /// The baseline of the issue: a bare reverse-add union–find sweep per
 /// realization (every node added back in reverse of one random order,
 /// joined to its present neighbours over open edges; nothing recorded).
 fn bare_sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
     use rayon::prelude::*;
-    let mut rng = rng::stream(7, Stage::Rule, 0);
-    let mut order: Vec<u32> = (0..net.node_count() as u32).collect();
-    rng::shuffle(&mut rng, &mut order);
+    let order = shuffled(net);
     let thr = rng::threshold(0.5);
     let t = Instant::now();
     let _: Vec<u32> = (0..runs)
@@ -99,9 +105,7 @@ fn bare_sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
 fn sweeps(net: &Network, runs: u64, per_run: usize) -> f64 {
     use rayon::prelude::*;
     let cfg = BudgetCurveConfig::new(Transmissibility::Uniform(0.5), 1.0, 7);
-    let mut rng = rng::stream(7, Stage::Rule, 0);
-    let mut order: Vec<u32> = (0..net.node_count() as u32).collect();
-    rng::shuffle(&mut rng, &mut order);
+    let order = shuffled(net);
     let t = Instant::now();
     let _: Vec<u32> = (0..runs)
         .into_par_iter()

@@ -108,24 +108,33 @@ pub(crate) fn break_forest(
         if removed[s as usize] || local[s as usize] != u32::MAX {
             continue;
         }
+        // One search of the tree gives its local labels and, row by row in
+        // label order, its forest adjacency (global labels until relabeled).
         tree.clear();
         tree.push(s);
         local[s as usize] = 0;
+        dec.off.clear();
+        dec.adj.clear();
+        dec.off.push(0);
         let mut i = 0;
         while i < tree.len() {
             let v = tree[i];
             i += 1;
             for &u in net.neighbors(v) {
-                if !removed[u as usize] && local[u as usize] == u32::MAX {
-                    local[u as usize] = tree.len() as u32;
-                    tree.push(u);
+                if !removed[u as usize] {
+                    dec.adj.push(u);
+                    if local[u as usize] == u32::MAX {
+                        local[u as usize] = tree.len() as u32;
+                        tree.push(u);
+                    }
                 }
             }
+            dec.off.push(dec.adj.len() as u32);
         }
         if tree.len() < 2 {
             continue;
         }
-        dec.load(net, removed, &local, &tree);
+        dec.load(&local, tree.len());
         let first = cuts.len();
         dec.run(&tree, &mut cuts);
         for c in &mut cuts[first..] {
@@ -160,25 +169,11 @@ struct TreeCuts {
 }
 
 impl TreeCuts {
-    /// The tree `tree` (global labels; `local[tree[i]] = i`) as local CSR.
-    fn load(
-        &mut self,
-        net: &crate::network::Network,
-        removed: &[bool],
-        local: &[u32],
-        tree: &[u32],
-    ) {
-        let s = tree.len();
-        self.off.clear();
-        self.adj.clear();
-        self.off.push(0);
-        for &v in tree {
-            for &u in net.neighbors(v) {
-                if !removed[u as usize] {
-                    self.adj.push(local[u as usize]);
-                }
-            }
-            self.off.push(self.adj.len() as u32);
+    /// Relabels the adjacency rows filled by the search (`local[v]` = v's
+    /// label) and sizes the work arrays for a tree of `s` nodes.
+    fn load(&mut self, local: &[u32], s: usize) {
+        for u in &mut self.adj {
+            *u = local[*u as usize];
         }
         self.cut.clear();
         self.cut.resize(s, false);

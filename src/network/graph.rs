@@ -689,6 +689,15 @@ fn rows<I: Iterator<Item = (u32, u32)>>(
 mod tests {
     use super::*;
 
+    /// A fixed pseudo-random sequence (64-bit LCG, Knuth MMIX constants):
+    /// `next(k)` is uniform-ish in `0..k`.
+    fn lcg(mut x: u64) -> impl FnMut(u64) -> u64 {
+        move |k| {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            (x >> 33) % k
+        }
+    }
+
     fn path(n: u32) -> Network {
         let e = (0..n - 1).map(|i| (i, i + 1)).collect();
         Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap().0
@@ -775,11 +784,8 @@ mod tests {
         // multigraph with loops and repeats in both directions, above and
         // below the radix-sort size. A fixed pseudo-random sequence (64-bit
         // LCG, Knuth MMIX constants).
-        let mut x = 7u64;
-        let mut next = |k: u32| {
-            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
-            ((x >> 33) % k as u64) as u32
-        };
+        let mut lcg = lcg(7);
+        let mut next = |k: u32| lcg(k as u64) as u32;
         for (n, m) in [(1u32, 3usize), (5, 40), (300, 3000), (2000, 30_000), (70_000, 300_000)] {
             let e: Vec<(u32, u32)> = (0..m).map(|_| (next(n), next(n))).collect();
             for directed in [false, true] {
@@ -841,11 +847,7 @@ mod tests {
     fn sort_pairs_sorts() {
         // Uniform, skewed (most sources tiny) and few-bit inputs, with
         // repeats; against the standard sort.
-        let mut x = 5u64;
-        let mut next = |k: u64| {
-            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
-            (x >> 33) % k
-        };
+        let mut next = lcg(5);
         for (n, len, skew) in [
             (2u32, 5000usize, false),
             (40, 9000, false),
@@ -871,11 +873,8 @@ mod tests {
 
     #[test]
     fn packed_and_unpacked_transpose_agree() {
-        let mut x = 11u64;
-        let mut next = |k: u32| {
-            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
-            ((x >> 33) % k as u64) as u32
-        };
+        let mut lcg = lcg(11);
+        let mut next = |k: u32| lcg(k as u64) as u32;
         let n = 50_000u32;
         let e: Vec<(u32, u32)> = (0..200_000).map(|_| (next(n), next(n))).collect();
         let (net, _) = Network::from_edges(n, false, e, None, WeightMerge::Max).unwrap();
