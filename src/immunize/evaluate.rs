@@ -17,8 +17,8 @@ use rayon::prelude::*;
 
 use crate::network::{Network, NodeTable};
 use crate::percolation::{
-    budget_curve_into, nonbacktracking_radius_above, nonbacktracking_radius_with, BudgetCurve,
-    BudgetCurveConfig, PercolationError, Scratch, SpectralRadius, Transmissibility,
+    budget_curve_into, nonbacktracking_radius_with, BudgetCurve, BudgetCurveConfig,
+    PercolationError, ResidualCore, Scratch, SpectralRadius, Transmissibility,
 };
 use crate::rng::{self, Stage};
 
@@ -189,6 +189,76 @@ pub fn radius_after(
     nonbacktracking_radius_with(net, weights, Some(&phi), 1e-6, RADIUS_ITERATIONS)
 }
 
+/// The undosed residual network of a study (absent people removed), kept
+/// once for the threshold searches of every rule: each rule's residual
+/// networks remove more people, so their 2-cores are found within this
+/// one (see [`ResidualCore::restrict`]).
+pub(crate) struct Undosed {
+    core: ResidualCore,
+    /// The radius with no doses (full precision), and whether `t` times it
+    /// is below 1.
+    radius: SpectralRadius,
+    contained: bool,
+}
+
+impl Undosed {
+    pub(crate) fn new(
+        net: &Network,
+        t: f64,
+        weights: &Transmissibility,
+        absent: Option<&[bool]>,
+    ) -> Result<Self, PercolationError> {
+        Self::build(net, t, weights, absent, true)
+    }
+
+    /// `full`: the radius to full precision; otherwise only the side of
+    /// `1/t` is decided (the radius then has bounds, not an estimate).
+    fn build(
+        net: &Network,
+        t: f64,
+        weights: &Transmissibility,
+        absent: Option<&[bool]>,
+        full: bool,
+    ) -> Result<Self, PercolationError> {
+        let phi = occupation(net.node_count(), absent, &[], 0, 1.0);
+        let core = ResidualCore::new(net, weights, Some(&phi))?;
+        let (radius, above) = if full {
+            (core.radius(1e-6, RADIUS_ITERATIONS)?, None)
+        } else {
+            let (above, r) =
+                core.radius_above(1.0 / t, 1e-6, RADIUS_ITERATIONS, &mut Vec::new())?;
+            (r, above)
+        };
+        let contained = match above {
+            Some(a) => !a,
+            None => t * radius.estimate < 1.0,
+        };
+        Ok(Undosed { core, radius, contained })
+    }
+
+    /// The radius with no doses ([`radius_after`] at k = 0).
+    pub(crate) fn radius(&self) -> SpectralRadius {
+        self.radius
+    }
+
+    /// [`radius_after`], from this core.
+    pub(crate) fn radius_after(
+        &self,
+        net: &Network,
+        weights: &Transmissibility,
+        absent: Option<&[bool]>,
+        seq: &[u32],
+        k: usize,
+        efficacy: f64,
+    ) -> Result<SpectralRadius, PercolationError> {
+        if k == 0 {
+            return Ok(self.radius);
+        }
+        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
+        self.core.restrict(weights, &phi)?.radius(1e-6, RADIUS_ITERATIONS)
+    }
+}
+
 /// Fewest doses `k` of `seq` with `t · radius(k) < 1`. Monotone because
 /// more doses lower the occupation entrywise and the spectral radius of a
 /// nonnegative matrix does not increase when entries decrease
@@ -197,11 +267,13 @@ pub fn radius_after(
 /// it.
 ///
 /// Each probe only has to decide the side of `1/t`
-/// ([`nonbacktracking_radius_above`]: the Collatz–Wielandt bounds usually
-/// settle it in a few iterations; when they cannot, the converged estimate
-/// decides, as a full computation would), starting from the previous
-/// probe's vector. (Regula falsi was tried: the early-stopped probes give
-/// too rough a radius to interpolate, and it needed more probes.)
+/// ([`nonbacktracking_radius_above`](crate::percolation::nonbacktracking_radius_above):
+/// the Collatz–Wielandt bounds usually settle it in a few iterations; when
+/// they cannot, the converged estimate decides, as a full computation
+/// would), starting from the previous probe's vector. (Regula falsi was
+/// tried: the early-stopped probes give too rough a radius to
+/// interpolate, and it needed more probes.) No doses: the full-precision
+/// radius decides.
 pub fn doses_to_contain(
     net: &Network,
     t: f64,
@@ -210,29 +282,44 @@ pub fn doses_to_contain(
     seq: &[u32],
     efficacy: f64,
 ) -> Result<Option<u64>, PercolationError> {
-    let level = 1.0 / t;
-    // Whether the first k doses contain spread; each probe starts from the
-    // previous probe's vector.
-    let mut warm: Vec<f64> = Vec::new();
-    let mut probe = |k: usize| -> Result<bool, PercolationError> {
-        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
-        let (above, r) = nonbacktracking_radius_above(
-            net,
-            weights,
-            Some(&phi),
-            level,
-            1e-6,
-            RADIUS_ITERATIONS,
-            &mut warm,
-        )?;
-        Ok(match above {
-            Some(a) => !a,
-            None => t * r.estimate < 1.0,
-        })
-    };
-    if probe(0)? {
+    let undosed = Undosed::build(net, t, weights, absent, false)?;
+    doses_to_contain_from(&undosed, net, t, weights, absent, seq, efficacy)
+}
+
+/// [`doses_to_contain`] from the study's undosed residual network.
+pub(crate) fn doses_to_contain_from(
+    undosed: &Undosed,
+    net: &Network,
+    t: f64,
+    weights: &Transmissibility,
+    absent: Option<&[bool]>,
+    seq: &[u32],
+    efficacy: f64,
+) -> Result<Option<u64>, PercolationError> {
+    if undosed.contained {
         return Ok(Some(0));
     }
+    let level = 1.0 / t;
+    // Whether the first k doses contain spread; each probe starts from the
+    // previous probe's vector, and from the residual core of the largest
+    // dose count known not to contain spread (`base`): every later probe
+    // removes more people, so its core lies within that one and is found
+    // in time proportional to it rather than to the whole network.
+    let mut warm: Vec<f64> = Vec::new();
+    let mut base: Option<ResidualCore> = None;
+    let mut probe = |k: usize| -> Result<bool, PercolationError> {
+        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
+        let core = base.as_ref().unwrap_or(&undosed.core).restrict(weights, &phi)?;
+        let (above, r) = core.radius_above(level, 1e-6, RADIUS_ITERATIONS, &mut warm)?;
+        let contained = match above {
+            Some(a) => !a,
+            None => t * r.estimate < 1.0,
+        };
+        if !contained {
+            base = Some(core);
+        }
+        Ok(contained)
+    };
     if !probe(seq.len())? {
         return Ok(None);
     }

@@ -435,42 +435,37 @@ pub fn rank_network(
     progress.phase("realizations and thresholds", cfg.runs as u64 + nr as u64 + 1);
     let thresholds = || -> Result<(Vec<Det>, crate::percolation::SpectralRadius), ImmunizeError> {
         use rayon::prelude::*;
-        let (base, dets) = rayon::join(
-            || {
-                let r = evaluate::radius_after(net, &weight_of, absent, &[], 0, cfg.efficacy);
+        // The undosed residual network once (its radius is the baseline's);
+        // every rule's searches start from its 2-core.
+        let undosed = evaluate::Undosed::new(net, t, &weight_of, absent)?;
+        progress.advance(1);
+        let dets = (0..nr)
+            .into_par_iter()
+            .map(|i| {
+                let order = order_of(i, 0);
+                let (seq, doses) = evaluate::dose_sequence(&order, nodes, res.budget, cfg.seed, 0);
+                let radius = undosed.radius_after(
+                    net,
+                    &weight_of,
+                    absent,
+                    &seq,
+                    doses as usize,
+                    cfg.efficacy,
+                )?;
+                let contain = evaluate::doses_to_contain_from(
+                    &undosed,
+                    net,
+                    t,
+                    &weight_of,
+                    absent,
+                    &seq,
+                    cfg.efficacy,
+                )?;
                 progress.advance(1);
-                r
-            },
-            || {
-                (0..nr)
-                    .into_par_iter()
-                    .map(|i| {
-                        let order = order_of(i, 0);
-                        let (seq, doses) =
-                            evaluate::dose_sequence(&order, nodes, res.budget, cfg.seed, 0);
-                        let radius = evaluate::radius_after(
-                            net,
-                            &weight_of,
-                            absent,
-                            &seq,
-                            doses as usize,
-                            cfg.efficacy,
-                        )?;
-                        let contain = evaluate::doses_to_contain(
-                            net,
-                            t,
-                            &weight_of,
-                            absent,
-                            &seq,
-                            cfg.efficacy,
-                        )?;
-                        progress.advance(1);
-                        Ok(Det { seq, doses, radius, contain })
-                    })
-                    .collect::<Result<Vec<_>, ImmunizeError>>()
-            },
-        );
-        Ok((dets?, base?))
+                Ok(Det { seq, doses, radius, contain })
+            })
+            .collect::<Result<Vec<_>, ImmunizeError>>()?;
+        Ok((dets, undosed.radius()))
     };
     let (table, thresholds) = rayon::join(
         || {

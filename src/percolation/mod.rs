@@ -23,6 +23,7 @@ pub use directed::{
     directed_configuration_threshold, directed_curve, directed_realization, DirectedComponents,
     DirectedConfig, DirectedPoint,
 };
+pub(crate) use nonbacktracking::ResidualCore;
 pub use nonbacktracking::{
     critical_transmissibility, nonbacktracking_radius, nonbacktracking_radius_above,
     nonbacktracking_radius_with, CriticalTransmissibility, SpectralRadius, NB_MAX_ITERATIONS,
