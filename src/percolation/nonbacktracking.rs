@@ -506,8 +506,6 @@ fn iterate(
     }
     let mut x = vec![0.0f64; core.weight.len()];
     let mut y = vec![0.0f64; core.weight.len()];
-    let mut wx = vec![0.0f64; core.weight.len()];
-    let mut node_sum: Vec<f64> = vec![0.0; core.offsets.len() - 1];
     // Per component: (lower, upper, converged, iterations).
     let mut found: Vec<(f64, f64, bool, u32)> = Vec::new();
     let mut best_lower = 0.0f64;
@@ -533,24 +531,23 @@ fn iterate(
         }
         let mut iterations = 0u32;
         loop {
-            // S_w = Σ_{q leaving w} weight_q x_q (wx_q = weight_q x_q kept).
-            for (w, sum) in node_sum.iter_mut().enumerate().take(b).skip(a) {
+            // y_{v→w} = S_w − weight_{w→v} x_{w→v} (all successors of v→w but
+            // the reverse), with S_w = Σ_{q leaving w} weight_q x_q: node by
+            // node, S_w from w's own slots, then scattered to the reverse of
+            // each (one random access per slot).
+            for w in a..b {
                 let (p, q) = (core.offsets[w], core.offsets[w + 1]);
                 let mut acc = 0.0;
                 for k in p..q {
-                    let v = core.weight[k] * x[k];
-                    wx[k] = v;
-                    acc += v;
+                    acc += core.weight[k] * x[k];
                 }
-                *sum = acc;
+                for k in p..q {
+                    y[core.rev[k] as usize] = (acc - core.weight[k] * x[k]).max(0.0);
+                }
             }
-            // y_{v→w} = S_w − weight_{w→v} x_{w→v}: all successors but the reverse.
             let (mut lo, mut hi) = (f64::INFINITY, 0.0f64);
             for p in sa..sb {
-                let r = core.rev[p] as usize;
-                let yp = (node_sum[core.head[p] as usize] - wx[r]).max(0.0);
-                y[p] = yp;
-                let ratio = yp / x[p];
+                let ratio = y[p] / x[p];
                 lo = lo.min(ratio);
                 hi = hi.max(ratio);
             }
