@@ -537,12 +537,10 @@ fn iterate(
             // each (one random access per slot).
             for w in a..b {
                 let (p, q) = (core.offsets[w], core.offsets[w + 1]);
-                let mut acc = 0.0;
-                for k in p..q {
-                    acc += core.weight[k] * x[k];
-                }
-                for k in p..q {
-                    y[core.rev[k] as usize] = (acc - core.weight[k] * x[k]).max(0.0);
+                let (wk, xk) = (&core.weight[p..q], &x[p..q]);
+                let acc: f64 = wk.iter().zip(xk).fold(0.0, |a, (w, x)| a + w * x);
+                for ((&r, w), x) in core.rev[p..q].iter().zip(wk).zip(xk) {
+                    y[r as usize] = (acc - w * x).max(0.0);
                 }
             }
             let (mut lo, mut hi) = (f64::INFINITY, 0.0f64);
