@@ -98,6 +98,19 @@ pub(crate) fn break_forest(
     order: &mut Vec<u32>,
 ) {
     let n = removed.len();
+    // The forest's own rows (neighbours not removed, in network order), in
+    // one sequential pass: the tree searches below then read short rows of
+    // a small array instead of whole contact lists at random.
+    let mut foff: Vec<u32> = Vec::with_capacity(n + 1);
+    let mut fadj: Vec<u32> = Vec::new();
+    foff.push(0);
+    for v in 0..n as u32 {
+        if !removed[v as usize] {
+            fadj.extend(net.neighbors(v).iter().filter(|&&u| !removed[u as usize]));
+        }
+        foff.push(fadj.len() as u32);
+    }
+    let forest = |v: u32| &fadj[foff[v as usize] as usize..foff[v as usize + 1] as usize];
     // Local (per tree) labels: position in a search of the tree.
     let mut local = vec![u32::MAX; n];
     let mut tree: Vec<u32> = Vec::new();
@@ -120,13 +133,11 @@ pub(crate) fn break_forest(
         while i < tree.len() {
             let v = tree[i];
             i += 1;
-            for &u in net.neighbors(v) {
-                if !removed[u as usize] {
-                    dec.adj.push(u);
-                    if local[u as usize] == u32::MAX {
-                        local[u as usize] = tree.len() as u32;
-                        tree.push(u);
-                    }
+            for &u in forest(v) {
+                dec.adj.push(u);
+                if local[u as usize] == u32::MAX {
+                    local[u as usize] = tree.len() as u32;
+                    tree.push(u);
                 }
             }
             dec.off.push(dec.adj.len() as u32);
