@@ -119,62 +119,13 @@ fn residual_core(
         let w = targets[p] as usize;
         phi(v) > 0.0 && phi(w) > 0.0 && t.of(eids[p] as usize) > 0.0
     };
-    // 2-core pruning by peeling nodes of residual degree < 2.
-    let mut deg: Vec<u32> = (0..n)
-        .map(|v| {
-            if phi(v) > 0.0 {
-                (offs[v] as usize..offs[v + 1] as usize).filter(|&p| live(v, p)).count() as u32
-            } else {
-                0
-            }
-        })
-        .collect();
     let mut alive: Vec<bool> = (0..n).map(|v| phi(v) > 0.0).collect();
-    let mut stack: Vec<u32> =
-        (0..n as u32).filter(|&v| alive[v as usize] && deg[v as usize] < 2).collect();
-    while let Some(v) = stack.pop() {
-        let vi = v as usize;
-        if !alive[vi] {
-            continue;
-        }
-        alive[vi] = false;
-        for p in offs[vi] as usize..offs[vi + 1] as usize {
-            let w = targets[p] as usize;
-            if alive[w] && live(vi, p) {
-                deg[w] -= 1;
-                if deg[w] == 1 {
-                    stack.push(w as u32);
-                }
-            }
-        }
-    }
-    // Components of the core by BFS; core numbering groups them.
-    let mut label = vec![u32::MAX; n];
-    let mut order: Vec<u32> = Vec::new();
-    let mut comps: Vec<(usize, usize)> = Vec::new();
-    for s in 0..n {
-        if !alive[s] || label[s] != u32::MAX {
-            continue;
-        }
-        let start = order.len();
-        label[s] = start as u32;
-        order.push(s as u32);
-        let mut head = start;
-        while head < order.len() {
-            let v = order[head] as usize;
-            head += 1;
-            for p in offs[v] as usize..offs[v + 1] as usize {
-                let w = targets[p] as usize;
-                if alive[w] && live(v, p) && label[w] == u32::MAX {
-                    label[w] = order.len() as u32;
-                    order.push(w as u32);
-                }
-            }
-        }
-        comps.push((start, order.len()));
-    }
-    // Largest first (ties by first node, deterministic).
-    comps.sort_by_key(|&(a, b)| (std::cmp::Reverse(b - a), a));
+    let (label, order, comps) = core_components(
+        &mut alive,
+        |v| offs[v] as usize..offs[v + 1] as usize,
+        |p| targets[p] as usize,
+        live,
+    );
     // Compact slots; the two slots of an undirected edge share its edge id,
     // which links each slot to its reverse in O(M).
     let mut offsets = Vec::with_capacity(order.len() + 1);
@@ -211,6 +162,74 @@ fn residual_core(
     Ok(Core { offsets, weight, rev, head: slot_target, components: comps, arc, node: order })
 }
 
+/// Peels the nodes marked `alive` to their 2-core (alive is cleared for
+/// the peeled ones) and numbers the core by breadth-first search, one
+/// component after another: `label[v]` is v's core label (`u32::MAX` off
+/// the core), `order[l]` the node of label l, and the components' label
+/// ranges come largest first (ties by first label). Node v's slots are
+/// `slots(v)`, slot p leads to `head(p)` and counts only when `live(v, p)`.
+fn core_components(
+    alive: &mut [bool],
+    slots: impl Fn(usize) -> std::ops::Range<usize>,
+    head: impl Fn(usize) -> usize,
+    live: impl Fn(usize, usize) -> bool,
+) -> (Vec<u32>, Vec<u32>, Vec<(usize, usize)>) {
+    let n = alive.len();
+    let mut deg: Vec<u32> = (0..n)
+        .map(|v| {
+            if alive[v] {
+                slots(v).filter(|&p| alive[head(p)] && live(v, p)).count() as u32
+            } else {
+                0
+            }
+        })
+        .collect();
+    let mut stack: Vec<u32> =
+        (0..n as u32).filter(|&v| alive[v as usize] && deg[v as usize] < 2).collect();
+    while let Some(v) = stack.pop() {
+        let vi = v as usize;
+        if !alive[vi] {
+            continue;
+        }
+        alive[vi] = false;
+        for p in slots(vi) {
+            let w = head(p);
+            if alive[w] && live(vi, p) {
+                deg[w] -= 1;
+                if deg[w] == 1 {
+                    stack.push(w as u32);
+                }
+            }
+        }
+    }
+    let mut label = vec![u32::MAX; n];
+    let mut order: Vec<u32> = Vec::new();
+    let mut comps: Vec<(usize, usize)> = Vec::new();
+    for s in 0..n {
+        if !alive[s] || label[s] != u32::MAX {
+            continue;
+        }
+        let start = order.len();
+        label[s] = start as u32;
+        order.push(s as u32);
+        let mut next = start;
+        while next < order.len() {
+            let v = order[next] as usize;
+            next += 1;
+            for p in slots(v) {
+                let w = head(p);
+                if alive[w] && live(v, p) && label[w] == u32::MAX {
+                    label[w] = order.len() as u32;
+                    order.push(w as u32);
+                }
+            }
+        }
+        comps.push((start, order.len()));
+    }
+    comps.sort_by_key(|&(a, b)| (std::cmp::Reverse(b - a), a));
+    (label, order, comps)
+}
+
 /// The residual 2-core under `occupation` computed from `core` (the core
 /// under an occupation that is positive wherever this one is) in
 /// O(size of `core`) instead of O(N + M). It equals [`residual_core`] of
@@ -234,59 +253,8 @@ fn restrict_core(
         alive.push(x > 0.0);
     }
     let slots = |l: usize| core.offsets[l]..core.offsets[l + 1];
-    let mut deg: Vec<u32> = (0..nc)
-        .map(|l| {
-            if alive[l] {
-                slots(l).filter(|&p| alive[core.head[p] as usize]).count() as u32
-            } else {
-                0
-            }
-        })
-        .collect();
-    let mut stack: Vec<u32> =
-        (0..nc as u32).filter(|&l| alive[l as usize] && deg[l as usize] < 2).collect();
-    while let Some(l) = stack.pop() {
-        let li = l as usize;
-        if !alive[li] {
-            continue;
-        }
-        alive[li] = false;
-        for p in slots(li) {
-            let w = core.head[p] as usize;
-            if alive[w] {
-                deg[w] -= 1;
-                if deg[w] == 1 {
-                    stack.push(w as u32);
-                }
-            }
-        }
-    }
-    // Components by BFS, in the old core numbering's order.
-    let mut label = vec![u32::MAX; nc];
-    let mut order: Vec<u32> = Vec::new();
-    let mut comps: Vec<(usize, usize)> = Vec::new();
-    for s0 in 0..nc {
-        if !alive[s0] || label[s0] != u32::MAX {
-            continue;
-        }
-        let start = order.len();
-        label[s0] = start as u32;
-        order.push(s0 as u32);
-        let mut head = start;
-        while head < order.len() {
-            let l = order[head] as usize;
-            head += 1;
-            for p in slots(l) {
-                let w = core.head[p] as usize;
-                if alive[w] && label[w] == u32::MAX {
-                    label[w] = order.len() as u32;
-                    order.push(w as u32);
-                }
-            }
-        }
-        comps.push((start, order.len()));
-    }
-    comps.sort_by_key(|&(a, b)| (std::cmp::Reverse(b - a), a));
+    let (label, order, comps) =
+        core_components(&mut alive, slots, |p| core.head[p] as usize, |_, _| true);
     let mut new_slot = vec![u32::MAX; core.weight.len()];
     let mut offsets = Vec::with_capacity(order.len() + 1);
     let (mut weight, mut head, mut arc, mut from) =
