@@ -193,20 +193,24 @@ pub fn radius_after(
 /// once for the threshold searches of every rule: each rule's residual
 /// networks remove more people, so their 2-cores are found within this
 /// one (see [`ResidualCore::restrict`]).
-pub(crate) struct Undosed {
-    core: ResidualCore,
-    /// The radius with no doses (full precision), and whether `t` times it
-    /// is below 1.
+pub(crate) struct Undosed<'a> {
+    net: &'a Network,
+    /// The study's transmissibility; r_eff = t × radius of `weights`.
+    t: f64,
+    absent: Option<&'a [bool]>,
+    core: ResidualCore<'a>,
+    /// The radius with no doses, and whether `t` times it is below 1.
     radius: SpectralRadius,
     contained: bool,
 }
 
-impl Undosed {
+impl<'a> Undosed<'a> {
+    /// With the undosed radius to full precision.
     pub(crate) fn new(
-        net: &Network,
+        net: &'a Network,
         t: f64,
-        weights: &Transmissibility,
-        absent: Option<&[bool]>,
+        weights: &'a Transmissibility,
+        absent: Option<&'a [bool]>,
     ) -> Result<Self, PercolationError> {
         Self::build(net, t, weights, absent, true)
     }
@@ -214,10 +218,10 @@ impl Undosed {
     /// `full`: the radius to full precision; otherwise only the side of
     /// `1/t` is decided (the radius then has bounds, not an estimate).
     fn build(
-        net: &Network,
+        net: &'a Network,
         t: f64,
-        weights: &Transmissibility,
-        absent: Option<&[bool]>,
+        weights: &'a Transmissibility,
+        absent: Option<&'a [bool]>,
         full: bool,
     ) -> Result<Self, PercolationError> {
         let phi = occupation(net.node_count(), absent, &[], 0, 1.0);
@@ -233,7 +237,7 @@ impl Undosed {
             Some(a) => !a,
             None => t * radius.estimate < 1.0,
         };
-        Ok(Undosed { core, radius, contained })
+        Ok(Undosed { net, t, absent, core, radius, contained })
     }
 
     /// The radius with no doses ([`radius_after`] at k = 0).
@@ -244,9 +248,6 @@ impl Undosed {
     /// [`radius_after`], from this core.
     pub(crate) fn radius_after(
         &self,
-        net: &Network,
-        weights: &Transmissibility,
-        absent: Option<&[bool]>,
         seq: &[u32],
         k: usize,
         efficacy: f64,
@@ -254,8 +255,55 @@ impl Undosed {
         if k == 0 {
             return Ok(self.radius);
         }
-        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
-        self.core.restrict(weights, &phi)?.radius(1e-6, RADIUS_ITERATIONS)
+        let phi = occupation(self.net.node_count(), self.absent, seq, k, efficacy);
+        self.core.restrict(&phi)?.radius(1e-6, RADIUS_ITERATIONS)
+    }
+
+    /// [`doses_to_contain`], from this core.
+    pub(crate) fn doses_to_contain(
+        &self,
+        seq: &[u32],
+        efficacy: f64,
+    ) -> Result<Option<u64>, PercolationError> {
+        if self.contained {
+            return Ok(Some(0));
+        }
+        let (t, level) = (self.t, 1.0 / self.t);
+        // Whether the first k doses contain spread; each probe starts from
+        // the previous probe's vector, and from the residual core of the
+        // largest dose count known not to contain spread (`base`): every
+        // later probe removes more people, so its core lies within that one
+        // and is found in time proportional to it rather than to the whole
+        // network.
+        let mut warm: Vec<f64> = Vec::new();
+        let mut base: Option<ResidualCore> = None;
+        let mut probe = |k: usize| -> Result<bool, PercolationError> {
+            let phi = occupation(self.net.node_count(), self.absent, seq, k, efficacy);
+            let core = base.as_ref().unwrap_or(&self.core).restrict(&phi)?;
+            let (above, r) = core.radius_above(level, 1e-6, RADIUS_ITERATIONS, &mut warm)?;
+            let contained = match above {
+                Some(a) => !a,
+                None => t * r.estimate < 1.0,
+            };
+            if !contained {
+                base = Some(core);
+            }
+            Ok(contained)
+        };
+        if !probe(seq.len())? {
+            return Ok(None);
+        }
+        // Invariant: not contained at lo, contained at hi.
+        let (mut lo, mut hi) = (0usize, seq.len());
+        while hi - lo > 1 {
+            let mid = lo + (hi - lo) / 2;
+            if probe(mid)? {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        Ok(Some(hi as u64))
     }
 }
 
@@ -272,8 +320,8 @@ impl Undosed {
 /// they cannot, the converged estimate decides, as a full computation
 /// would), starting from the previous probe's vector. (Regula falsi was
 /// tried: the early-stopped probes give too rough a radius to
-/// interpolate, and it needed more probes.) No doses: the full-precision
-/// radius decides.
+/// interpolate, and it needed more probes.) No doses: the undosed radius
+/// decides.
 pub fn doses_to_contain(
     net: &Network,
     t: f64,
@@ -282,58 +330,7 @@ pub fn doses_to_contain(
     seq: &[u32],
     efficacy: f64,
 ) -> Result<Option<u64>, PercolationError> {
-    let undosed = Undosed::build(net, t, weights, absent, false)?;
-    doses_to_contain_from(&undosed, net, t, weights, absent, seq, efficacy)
-}
-
-/// [`doses_to_contain`] from the study's undosed residual network.
-pub(crate) fn doses_to_contain_from(
-    undosed: &Undosed,
-    net: &Network,
-    t: f64,
-    weights: &Transmissibility,
-    absent: Option<&[bool]>,
-    seq: &[u32],
-    efficacy: f64,
-) -> Result<Option<u64>, PercolationError> {
-    if undosed.contained {
-        return Ok(Some(0));
-    }
-    let level = 1.0 / t;
-    // Whether the first k doses contain spread; each probe starts from the
-    // previous probe's vector, and from the residual core of the largest
-    // dose count known not to contain spread (`base`): every later probe
-    // removes more people, so its core lies within that one and is found
-    // in time proportional to it rather than to the whole network.
-    let mut warm: Vec<f64> = Vec::new();
-    let mut base: Option<ResidualCore> = None;
-    let mut probe = |k: usize| -> Result<bool, PercolationError> {
-        let phi = occupation(net.node_count(), absent, seq, k, efficacy);
-        let core = base.as_ref().unwrap_or(&undosed.core).restrict(weights, &phi)?;
-        let (above, r) = core.radius_above(level, 1e-6, RADIUS_ITERATIONS, &mut warm)?;
-        let contained = match above {
-            Some(a) => !a,
-            None => t * r.estimate < 1.0,
-        };
-        if !contained {
-            base = Some(core);
-        }
-        Ok(contained)
-    };
-    if !probe(seq.len())? {
-        return Ok(None);
-    }
-    // Invariant: not contained at lo, contained at hi.
-    let (mut lo, mut hi) = (0usize, seq.len());
-    while hi - lo > 1 {
-        let mid = lo + (hi - lo) / 2;
-        if probe(mid)? {
-            hi = mid;
-        } else {
-            lo = mid;
-        }
-    }
-    Ok(Some(hi as u64))
+    Undosed::build(net, t, weights, absent, false)?.doses_to_contain(seq, efficacy)
 }
 
 /// Runs every realization for every rule in parallel; the result is indexed

@@ -444,23 +444,8 @@ pub fn rank_network(
             .map(|i| {
                 let order = order_of(i, 0);
                 let (seq, doses) = evaluate::dose_sequence(&order, nodes, res.budget, cfg.seed, 0);
-                let radius = undosed.radius_after(
-                    net,
-                    &weight_of,
-                    absent,
-                    &seq,
-                    doses as usize,
-                    cfg.efficacy,
-                )?;
-                let contain = evaluate::doses_to_contain_from(
-                    &undosed,
-                    net,
-                    t,
-                    &weight_of,
-                    absent,
-                    &seq,
-                    cfg.efficacy,
-                )?;
+                let radius = undosed.radius_after(&seq, doses as usize, cfg.efficacy)?;
+                let contain = undosed.doses_to_contain(&seq, cfg.efficacy)?;
                 progress.advance(1);
                 Ok(Det { seq, doses, radius, contain })
             })

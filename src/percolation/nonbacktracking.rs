@@ -281,31 +281,31 @@ fn restrict_core(
 /// The residual 2-core of a network under one occupation, kept so that
 /// decisions on residual networks with more people removed (a search over
 /// dose counts) start from it instead of the whole network.
-pub(crate) struct ResidualCore {
+pub(crate) struct ResidualCore<'a> {
     core: Core,
     /// Directed edges of the network (`2M`, the length of a warm vector).
     arcs: usize,
+    /// The transmissibility the core was built with (its restrictions
+    /// keep it).
+    t: &'a Transmissibility,
 }
 
-impl ResidualCore {
+impl<'a> ResidualCore<'a> {
     /// The residual 2-core of `net` under `t` and `occupation`.
     pub(crate) fn new(
         net: &Network,
-        t: &Transmissibility,
+        t: &'a Transmissibility,
         occupation: Option<&[f64]>,
     ) -> Result<Self, PercolationError> {
-        Ok(ResidualCore { core: residual_core(net, t, occupation)?, arcs: 2 * net.edge_count() })
+        let core = residual_core(net, t, occupation)?;
+        Ok(ResidualCore { core, arcs: 2 * net.edge_count(), t })
     }
 
     /// The residual 2-core under `occupation`, which must be 0 wherever
-    /// the occupation this core was built with is 0 (more people removed,
-    /// the same `t`).
-    pub(crate) fn restrict(
-        &self,
-        t: &Transmissibility,
-        occupation: &[f64],
-    ) -> Result<Self, PercolationError> {
-        Ok(ResidualCore { core: restrict_core(&self.core, t, occupation)?, arcs: self.arcs })
+    /// the occupation this core was built with is 0 (more people removed).
+    pub(crate) fn restrict(&self, occupation: &[f64]) -> Result<Self, PercolationError> {
+        let core = restrict_core(&self.core, self.t, occupation)?;
+        Ok(ResidualCore { core, arcs: self.arcs, t: self.t })
     }
 
     /// [`nonbacktracking_radius_with`] on this core.
@@ -719,16 +719,16 @@ mod tests {
                     .collect()
             };
             let base = ResidualCore::new(&g, &t, Some(&occ(300, 0))).unwrap();
-            let mut inner = base.restrict(&t, &occ(900, 0)).unwrap();
+            let mut inner = base.restrict(&occ(900, 0)).unwrap();
             for (zero, part) in [(900, 0), (1500, 0), (300, 1200)] {
                 let o = occ(zero, part);
-                let r = base.restrict(&t, &o).unwrap().radius(1e-9, 10_000).unwrap();
+                let r = base.restrict(&o).unwrap().radius(1e-9, 10_000).unwrap();
                 let full = nonbacktracking_radius_with(&g, &t, Some(&o), 1e-9, 10_000).unwrap();
                 assert!(full.lower > 0.5, "a nontrivial core");
                 assert_eq!(r, full, "removed {zero}, partial {part}");
                 if part == 0 {
                     // Restricting twice (nested supports) is the same again.
-                    inner = inner.restrict(&t, &o).unwrap();
+                    inner = inner.restrict(&o).unwrap();
                     assert_eq!(inner.radius(1e-9, 10_000).unwrap(), full, "nested {zero}");
                     let mut w = Vec::new();
                     let level = full.estimate * 0.99;
